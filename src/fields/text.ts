@@ -1,0 +1,54 @@
+import { z } from 'zod';
+import type { FieldType, Interpretation, Reading } from './types.js';
+
+const options = z
+  .object({
+    pattern: z.string().optional().describe('Regular expression the whole cleaned value must match.'),
+    minLength: z.number().int().min(0).optional(),
+    maxLength: z.number().int().min(1).optional(),
+    case: z.enum(['as_read', 'upper', 'lower', 'title']).default('as_read'),
+  })
+  .strict();
+
+export type TextOptions = z.infer<typeof options>;
+
+/** Collapse whitespace and strip stray edge punctuation that OCR produces from borders (common practice). */
+export function cleanOcrText(raw: string): string {
+  return raw
+    .replace(/[\u2018\u2019]/g, "'")
+    .replace(/[\u201c\u201d]/g, '"')
+    .replace(/\s+/g, ' ')
+    .replace(/^[\s|\]\[_~`.,;:!'"-]+/, '')
+    .replace(/[\s|\]\[_~`,;:!'"-]+$/, '')
+    .trim();
+}
+
+function applyCase(s: string, c: TextOptions['case']): string {
+  if (c === 'upper') return s.toUpperCase();
+  if (c === 'lower') return s.toLowerCase();
+  if (c === 'title') return s.toLowerCase().replace(/(^|[\s'-])(\p{L})/gu, (_m, p: string, l: string) => p + l.toUpperCase());
+  return s;
+}
+
+function check(value: string, o: TextOptions): Interpretation {
+  if (value === '') return { value: null, outcome: 'empty', confidence: 1, reasons: [] };
+  const reasons: string[] = [];
+  if (o.minLength !== undefined && value.length < o.minLength) reasons.push('too_short');
+  if (o.maxLength !== undefined && value.length > o.maxLength) reasons.push('too_long');
+  if (o.pattern !== undefined && !new RegExp(`^(?:${o.pattern})$`, 'u').test(value)) reasons.push('pattern_mismatch');
+  return { value, outcome: reasons.length ? 'invalid' : 'valid', confidence: 1, reasons };
+}
+
+export const textField: FieldType<TextOptions> = {
+  name: 'text',
+  description: 'Free text such as a name or an address line.',
+  options,
+  reader: 'ocr',
+  interpret(reading: Reading, o) {
+    if (reading.kind !== 'text') throw new Error('text fields are read by OCR');
+    return check(applyCase(cleanOcrText(reading.text), o.case), o);
+  },
+  parseCorrection(text, o) {
+    return check(applyCase(text.replace(/\s+/g, ' ').trim(), o.case), o);
+  },
+};

@@ -1,0 +1,93 @@
+import { z } from 'zod';
+
+/** Version of the result JSON contract; bump on breaking changes. */
+export const RESULT_FORMAT = 1;
+
+export const FieldStatus = z.enum(['accepted', 'review', 'missing', 'invalid', 'corrected', 'confirmed']);
+export type FieldStatus = z.infer<typeof FieldStatus>;
+
+export const ResultBox = z.object({
+  page: z.number().int().min(0),
+  x: z.number(),
+  y: z.number(),
+  w: z.number(),
+  h: z.number(),
+});
+export type ResultBox = z.infer<typeof ResultBox>;
+
+const Value = z.union([z.string(), z.number(), z.boolean(), z.array(z.string()), z.null()]);
+
+export const FieldResult = z.object({
+  name: z.string(),
+  type: z.string(),
+  page: z.number().int().min(0),
+  /** Normalized value (ISO 8601 date, E.164 phone, true/false for a checkbox, ...). */
+  value: Value,
+  /** What OCR returned before normalization (null for mark-read fields). */
+  raw: z.string().nullable(),
+  extra: z.record(z.string(), z.union([z.string(), z.number(), z.boolean()])).optional(),
+  status: FieldStatus,
+  confidence: z.number().min(0).max(1),
+  reasons: z.array(z.string()),
+  /** Where the field was read, in source pixels of the (un-rotated) input page. */
+  box: ResultBox.nullable(),
+  /** Where the box came from: a detection, or the schema region after alignment. */
+  source: z.enum(['detection', 'region', 'none']),
+  /** Component scores that make up the confidence, each 0..1. */
+  scores: z.record(z.string(), z.number()),
+  /** Per-part details: fill ratios of a choice group's boxes, cleanup variants tried, ... */
+  details: z.record(z.string(), z.unknown()).optional(),
+  /** Set when a person corrected or confirmed the value through the review queue. */
+  review: z
+    .object({
+      previousValue: Value,
+      previousStatus: FieldStatus,
+      reviewer: z.string(),
+      at: z.string(),
+      note: z.string().optional(),
+    })
+    .optional(),
+});
+export type FieldResult = z.infer<typeof FieldResult>;
+
+export const PageResult = z.object({
+  index: z.number().int().min(0),
+  width: z.number().int(),
+  height: z.number().int(),
+  /** Clockwise rotation in degrees (0, 90, 180, 270) applied to make the page upright. */
+  rotation: z.number(),
+  /** Estimated skew in degrees that was corrected. */
+  skew: z.number(),
+  /** Page-to-reference alignment: method, affine transform, residual in reference pixels. */
+  alignment: z
+    .object({
+      method: z.string(),
+      transform: z.object({ a: z.number(), b: z.number(), c: z.number(), d: z.number(), e: z.number(), f: z.number() }),
+      residual: z.number().nullable(),
+      matched: z.number().int(),
+    })
+    .nullable(),
+  detections: z.number().int(),
+});
+export type PageResult = z.infer<typeof PageResult>;
+
+export const Identified = z.object({ id: z.string(), path: z.string(), sha256: z.string() });
+
+export const DocumentResult = z.object({
+  format: z.literal(RESULT_FORMAT),
+  document: Identified,
+  schema: z.object({ name: z.string(), version: z.string(), path: z.string(), sha256: z.string() }),
+  model: Identified,
+  createdAt: z.string(),
+  pages: z.array(PageResult),
+  fields: z.array(FieldResult),
+  counts: z.record(FieldStatus, z.number().int()),
+  seconds: z.number(),
+});
+export type DocumentResult = z.infer<typeof DocumentResult>;
+
+export function countStatuses(fields: readonly FieldResult[]): Record<FieldStatus, number> {
+  const counts = Object.fromEntries(FieldStatus.options.map((s) => [s, 0])) as Record<FieldStatus, number>;
+  for (const f of fields) counts[f.status]++;
+  return counts;
+}
