@@ -1,0 +1,28 @@
+#!/usr/bin/env node
+import { Command, CommanderError } from 'commander';
+import { FormgleanError, oneLine } from '../errors.js';
+
+const program = new Command();
+program
+  .name('formglean')
+  .description('Turn scanned paper forms into checked, structured records, offline.')
+  .version('0.1.0')
+  .showHelpAfterError()
+  .exitOverride();
+
+// Commands register themselves, one file per command.
+
+async function main(): Promise<void> {
+  try {
+    await program.parseAsync(process.argv);
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      process.exitCode = err.exitCode === 0 ? 0 : 2;
+      return;
+    }
+    process.stderr.write(`formglean: ${oneLine(err)}\n`);
+    process.exitCode = err instanceof FormgleanError ? err.exitCode : 1;
+  }
+}
+
+await main();
