@@ -1,0 +1,67 @@
+import { type Affine, invertAffine } from '../page/geometry.js';
+import { type GrayImage, sharpFromGray } from '../page/raster.js';
+
+/**
+ * Letterbox: fit a page into the detector's fixed input size without distorting it. The page is scaled by one
+ * factor so that it fits, centred, and the border is filled with white paper (1.0), the way single-stage detectors
+ * are commonly fed (common practice; centred padding as in the widely used YOLO letterbox). Training code that
+ * prepares pages for this runtime must letterbox the same way.
+ */
+export interface LetterboxGeometry {
+  inputWidth: number;
+  inputHeight: number;
+  /** Size of the scaled page inside the input. */
+  resizedWidth: number;
+  resizedHeight: number;
+  /** Offset of the scaled page inside the input (white padding before it). */
+  padX: number;
+  padY: number;
+  /** Page pixels → input pixels. */
+  toInput: Affine;
+  /** Input pixels → page pixels (maps detections back). */
+  toSource: Affine;
+}
+
+export interface LetterboxedPage extends LetterboxGeometry {
+  /** Row-major inputHeight × inputWidth floats, 0 = ink, 1 = paper. */
+  tensor: Float32Array;
+}
+
+/** The mapping alone (pure): where a srcWidth × srcHeight page lands in the input. */
+export function letterboxGeometry(
+  srcWidth: number,
+  srcHeight: number,
+  inputWidth: number,
+  inputHeight: number,
+): LetterboxGeometry {
+  if (!(srcWidth > 0 && srcHeight > 0 && inputWidth > 0 && inputHeight > 0)) {
+    throw new Error(`letterbox needs positive sizes, got page ${srcWidth}x${srcHeight} into ${inputWidth}x${inputHeight}`);
+  }
+  const scale = Math.min(inputWidth / srcWidth, inputHeight / srcHeight);
+  const resizedWidth = Math.min(inputWidth, Math.max(1, Math.round(srcWidth * scale)));
+  const resizedHeight = Math.min(inputHeight, Math.max(1, Math.round(srcHeight * scale)));
+  const padX = Math.floor((inputWidth - resizedWidth) / 2);
+  const padY = Math.floor((inputHeight - resizedHeight) / 2);
+  // Per-axis factors from the rounded size, so page edges land exactly on input pixel edges.
+  const sx = resizedWidth / srcWidth;
+  const sy = resizedHeight / srcHeight;
+  const toInput: Affine = { a: sx, b: 0, c: padX, d: 0, e: sy, f: padY };
+  return { inputWidth, inputHeight, resizedWidth, resizedHeight, padX, padY, toInput, toSource: invertAffine(toInput) };
+}
+
+/** Scale and pad a page into the input size; returns the float tensor and the mapping. */
+export async function letterbox(page: GrayImage, inputWidth: number, inputHeight: number): Promise<LetterboxedPage> {
+  const g = letterboxGeometry(page.width, page.height, inputWidth, inputHeight);
+  const { data, info } = await sharpFromGray(page)
+    .resize(g.resizedWidth, g.resizedHeight, { fit: 'fill' })
+    .raw()
+    .toBuffer({ resolveWithObject: true });
+  const tensor = new Float32Array(inputWidth * inputHeight).fill(1);
+  const channels = info.channels;
+  for (let y = 0; y < g.resizedHeight; y++) {
+    const row = (y + g.padY) * inputWidth + g.padX;
+    const src = y * g.resizedWidth * channels;
+    for (let x = 0; x < g.resizedWidth; x++) tensor[row + x] = data[src + x * channels] / 255;
+  }
+  return { ...g, tensor };
+}
