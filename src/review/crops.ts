@@ -1,0 +1,93 @@
+import { access } from 'node:fs/promises';
+import path from 'node:path';
+import { writeFileAtomic } from '../io/atomic-write.js';
+import type { Box } from '../page/geometry.js';
+import { clampBox, roundBox } from '../page/geometry.js';
+import type { GrayImage } from '../page/raster.js';
+import { cropGray, grayToPng, sharpFromGray } from '../page/raster.js';
+import type { DocumentResult, ResultBox } from '../result/document.js';
+import { contextCropName, cropName, reviewDir } from './layout.js';
+import { isPending } from './pending.js';
+import { reviewRowId } from './row-id.js';
+
+/** Pixels added around the field box in the field crop: the schema's default reading padding (4 px). */
+const FIELD_PAD = 4;
+
+/**
+ * Margins of the context crop: wide enough to take in a printed label beside or above the field
+ * (labels sit left of or above entry areas on most forms: common practice), capped so a page-wide
+ * field does not turn into a whole-page image.
+ */
+function contextMargins(b: Box): { mx: number; my: number } {
+  const mx = Math.min(400, Math.max(48, 0.5 * b.w, 4 * b.h));
+  const my = Math.min(200, Math.max(32, 1.5 * b.h));
+  return { mx, my };
+}
+
+function grow(b: Box, mx: number, my: number): Box {
+  return { x: b.x - mx, y: b.y - my, w: b.w + 2 * mx, h: b.h + 2 * my };
+}
+
+/** Frame stroke and the gap left between it and the field box, so the frame never covers ink in the field. */
+const FRAME_STROKE = 2;
+const FRAME_GAP = 3;
+
+/** The context crop as RGB PNG with a coloured frame around the field so the eye finds it among its neighbours. */
+async function contextPng(page: GrayImage, box: Box): Promise<Buffer> {
+  const { mx, my } = contextMargins(box);
+  const area = clampBox(roundBox(grow(box, mx, my)), page.width, page.height);
+  const crop = cropGray(page, area);
+  const fx = box.x - area.x - FRAME_GAP;
+  const fy = box.y - area.y - FRAME_GAP;
+  const fw = box.w + 2 * FRAME_GAP;
+  const fh = box.h + 2 * FRAME_GAP;
+  const svg =
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${crop.width}" height="${crop.height}">` +
+    `<rect x="${fx.toFixed(1)}" y="${fy.toFixed(1)}" width="${fw.toFixed(1)}" height="${fh.toFixed(1)}" ` +
+    `fill="none" stroke="#d9480f" stroke-width="${FRAME_STROKE}"/></svg>`;
+  return sharpFromGray(crop)
+    .toColourspace('srgb')
+    .composite([{ input: Buffer.from(svg), top: 0, left: 0 }])
+    .png()
+    .toBuffer();
+}
+
+function usableBox(box: ResultBox | null, pages: readonly GrayImage[]): box is ResultBox {
+  if (box === null || box.page >= pages.length) return false;
+  const page = pages[box.page];
+  const c = clampBox(box, page.width, page.height);
+  return c.w >= 1 && c.h >= 1;
+}
+
+/**
+ * For each field still waiting for review, write review/crops/<row id>.png (the field with a small padding)
+ * and review/crops/<row id>.context.png (the field and its surroundings, framed). `pages` are the upright page
+ * rasters the result boxes refer to (box.page indexes them). Fields without a usable box get no crop.
+ */
+export async function writeReviewCrops(outDir: string, result: DocumentResult, pages: GrayImage[]): Promise<void> {
+  const dir = reviewDir(outDir);
+  for (const field of result.fields) {
+    if (!isPending(field.status) || !usableBox(field.box, pages)) continue;
+    const page = pages[field.box.page];
+    const id = reviewRowId(result.document.sha256, field.name);
+    const fieldCrop = cropGray(page, grow(field.box, FIELD_PAD, FIELD_PAD));
+    await writeFileAtomic(path.join(dir, cropName(id)), await grayToPng(fieldCrop));
+    await writeFileAtomic(path.join(dir, contextCropName(id)), await contextPng(page, field.box));
+  }
+}
+
+/** The crop files of a row as the queue lists them (relative to queue.csv), '' when absent. */
+export async function existingCrops(outDir: string, ids: readonly string[]): Promise<{ crop: string; context: string }> {
+  const dir = reviewDir(outDir);
+  const exists = (rel: string) =>
+    access(path.join(dir, rel)).then(
+      () => true,
+      () => false,
+    );
+  for (const id of ids) {
+    if (await exists(cropName(id))) {
+      return { crop: cropName(id), context: (await exists(contextCropName(id))) ? contextCropName(id) : '' };
+    }
+  }
+  return { crop: '', context: '' };
+}

@@ -1,0 +1,40 @@
+import { createHash } from 'node:crypto';
+
+/**
+ * The parts of a document result that `review apply` itself rewrites: per field the value, its extra forms,
+ * the status and the review block; per document the status counts derived from them.
+ */
+const REVIEW_OWNED_FIELD_KEYS = new Set(['value', 'extra', 'status', 'review']);
+const REVIEW_OWNED_DOCUMENT_KEYS = new Set(['counts']);
+
+/** JSON with object keys sorted at every level, so equal content always hashes the same. */
+function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
+  if (value !== null && typeof value === 'object') {
+    const entries = Object.entries(value as Record<string, unknown>)
+      .filter(([, v]) => v !== undefined)
+      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(',')}}`;
+  }
+  return JSON.stringify(value) ?? 'null';
+}
+
+/**
+ * Fingerprint of a document result as extraction left it: a sha256 over everything except what review apply
+ * changes. It changes when the document is extracted again (new run time, boxes, confidences, raw text) or the
+ * JSON is edited by hand outside those parts, and stays put while corrections are applied, so a queue can be
+ * applied in several sittings. Takes the raw JSON object so keys unknown to this version count too.
+ */
+export function resultFingerprint(doc: unknown): string {
+  const d = (doc ?? {}) as Record<string, unknown>;
+  const kept: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(d)) if (!REVIEW_OWNED_DOCUMENT_KEYS.has(k)) kept[k] = v;
+  if (Array.isArray(d.fields)) {
+    kept.fields = d.fields.map((f) => {
+      const field: Record<string, unknown> = {};
+      for (const [k, v] of Object.entries((f ?? {}) as Record<string, unknown>)) if (!REVIEW_OWNED_FIELD_KEYS.has(k)) field[k] = v;
+      return field;
+    });
+  }
+  return createHash('sha256').update(canonicalJson(kept)).digest('hex');
+}
