@@ -1,0 +1,59 @@
+import type { GrayImage } from '../../page/raster.js';
+import { createGray } from '../../page/raster.js';
+import { INK } from './binary.js';
+
+/**
+ * Skew angle of the text in a binary crop, degrees, positive when lines fall to the right (clockwise in image
+ * coordinates). Projection-profile method (Postl 1986; Baird 1987): shear the ink by each candidate angle and keep
+ * the one whose row histogram is sharpest (largest sum of squares). Searches +-maxDegrees in `step` increments.
+ */
+export function estimateSkew(img: GrayImage, maxDegrees = 5, step = 0.25): number {
+  const xs: number[] = [], ys: number[] = [];
+  for (let y = 0; y < img.height; y++)
+    for (let x = 0; x < img.width; x++) if (img.data[y * img.width + x] === INK) { xs.push(x); ys.push(y); }
+  if (xs.length < 20) return 0;
+  const pad = Math.ceil(img.width * Math.tan((maxDegrees * Math.PI) / 180)) + 1;
+  const bins = new Float64Array(img.height + 2 * pad);
+  const scores: [number, number][] = [];
+  for (let deg = -maxDegrees; deg <= maxDegrees + 1e-9; deg += step) {
+    const t = Math.tan((deg * Math.PI) / 180);
+    bins.fill(0);
+    for (let i = 0; i < xs.length; i++) bins[Math.round(ys[i] - xs[i] * t) + pad]++;
+    let score = 0;
+    for (let i = 0; i < bins.length; i++) score += bins[i] * bins[i];
+    scores.push([deg, score]);
+  }
+  const top = Math.max(...scores.map((s) => s[1]));
+  // Among equally sharp angles take the smallest, so a straight crop stays untouched.
+  let best = Infinity;
+  for (const [deg, score] of scores) if (score >= top * (1 - 1e-9) && Math.abs(deg) < Math.abs(best)) best = deg;
+  return Math.round(best * 100) / 100;
+}
+
+/**
+ * Rotate a grayscale image by `degrees` about its centre (positive = counter-clockwise on screen, which undoes a
+ * positive skew), bilinear, keeping the size; uncovered corners become paper.
+ */
+export function rotateGray(img: GrayImage, degrees: number): GrayImage {
+  if (degrees === 0) return img;
+  const a = (degrees * Math.PI) / 180;
+  const cos = Math.cos(a), sin = Math.sin(a);
+  const cx = (img.width - 1) / 2, cy = (img.height - 1) / 2;
+  const out = createGray(img.width, img.height);
+  for (let y = 0; y < img.height; y++) {
+    for (let x = 0; x < img.width; x++) {
+      // Inverse mapping: the source pixel that lands on (x, y).
+      const dx = x - cx, dy = y - cy;
+      const sx = cos * dx - sin * dy + cx;
+      const sy = sin * dx + cos * dy + cy;
+      const x0 = Math.floor(sx), y0 = Math.floor(sy);
+      if (x0 < -1 || y0 < -1 || x0 >= img.width || y0 >= img.height) continue;
+      const tx = sx - x0, ty = sy - y0;
+      const px = (xx: number, yy: number) =>
+        xx < 0 || yy < 0 || xx >= img.width || yy >= img.height ? 255 : img.data[yy * img.width + xx];
+      const v = (px(x0, y0) * (1 - tx) + px(x0 + 1, y0) * tx) * (1 - ty) + (px(x0, y0 + 1) * (1 - tx) + px(x0 + 1, y0 + 1) * tx) * ty;
+      out.data[y * img.width + x] = Math.round(v);
+    }
+  }
+  return out;
+}

@@ -1,0 +1,113 @@
+import type { GrayImage } from '../../page/raster.js';
+import { INK, PAPER } from './binary.js';
+
+export interface LineRemovalOptions {
+  /** Shortest horizontal run counted as a ruled line, pixels. Default: 40 % of the crop width, at least 20 px. */
+  minHorizontal?: number;
+  /** Shortest vertical run counted as a ruled line or separator, pixels. Default: 60 % of the crop height, at least 12 px. */
+  minVertical?: number;
+  /**
+   * Shortest vertical run counted as a separator when one of its ends touches a horizontal rule (comb ticks rising
+   * from the cell's bottom line). Off by default; comb fields set it below the character height.
+   */
+  minAnchoredVertical?: number;
+  /** Restore line pixels where a character stroke crosses the line (ink directly on both sides). Default true. */
+  repairCrossings?: boolean;
+}
+
+export interface LineRemoval {
+  image: GrayImage;
+  /** 1 where a pixel was taken as part of a horizontal ruled line. */
+  horizontal: Uint8Array;
+  /** 1 where a pixel was taken as part of a vertical rule or separator. */
+  vertical: Uint8Array;
+}
+
+/**
+ * Mark ink that belongs to straight runs of at least `min` pixels along one axis: a morphological opening with a
+ * 1 x min line element (common practice for form-line removal). The image is first dilated by one pixel across the
+ * axis, so a rule tilted by a residual fraction of a degree (1-pixel steps) still reads as one run.
+ */
+function markRuns(
+  img: GrayImage,
+  horizontal: boolean,
+  min: number,
+  anchored?: { min: number; rules: Uint8Array },
+): Uint8Array {
+  const { width: w, height: h, data } = img;
+  const mark = new Uint8Array(w * h);
+  const along = horizontal ? w : h;
+  const across = horizontal ? h : w;
+  const at = (a: number, c: number) => (horizontal ? c * w + a : a * w + c);
+  const inkNear = (a: number, c: number) =>
+    data[at(a, c)] === INK || (c > 0 && data[at(a, c - 1)] === INK) || (c + 1 < across && data[at(a, c + 1)] === INK);
+  for (let c = 0; c < across; c++) {
+    let start = -1;
+    for (let a = 0; a <= along; a++) {
+      const on = a < along && inkNear(a, c);
+      if (on && start < 0) start = a;
+      if (!on && start >= 0) {
+        const len = a - start;
+        if (len >= min || (anchored && len >= anchored.min && touchesRule(img, anchored.rules, c, start, a))) {
+          for (let k = start; k < a; k++) {
+            for (let d = -1; d <= 1; d++) {
+              const cc = c + d;
+              if (cc >= 0 && cc < across && data[at(k, cc)] === INK) mark[at(k, cc)] = 1;
+            }
+          }
+        }
+        start = -1;
+      }
+    }
+  }
+  return mark;
+}
+
+/** Does a vertical run in column c over rows [y0, y1) end on a horizontal-rule pixel (within 2 px)? */
+function touchesRule(img: GrayImage, rules: Uint8Array, c: number, y0: number, y1: number): boolean {
+  const { width: w, height: h } = img;
+  for (const [from, to] of [[y0 - 2, y0 + 2], [y1 - 3, y1 + 1]]) {
+    for (let y = Math.max(0, from); y <= Math.min(h - 1, to); y++) {
+      for (let x = Math.max(0, c - 1); x <= Math.min(w - 1, c + 1); x++) if (rules[y * w + x]) return true;
+    }
+  }
+  return false;
+}
+
+/**
+ * Give back line pixels where a stroke crosses the line: along each column (for a horizontal line) the masked
+ * segment is restored when unmasked ink touches it on both ends, so a "t" or "p" written through a rule keeps its stem.
+ */
+function repair(img: GrayImage, mark: Uint8Array, horizontal: boolean): void {
+  const { width: w, height: h, data } = img;
+  const along = horizontal ? w : h;
+  const across = horizontal ? h : w;
+  const at = (a: number, c: number) => (horizontal ? c * w + a : a * w + c);
+  for (let a = 0; a < along; a++) {
+    let c = 0;
+    while (c < across) {
+      if (!mark[at(a, c)]) { c++; continue; }
+      const c0 = c;
+      while (c < across && mark[at(a, c)]) c++;
+      const before = c0 > 0 && data[at(a, c0 - 1)] === INK && !mark[at(a, c0 - 1)];
+      const after = c < across && data[at(a, c)] === INK && !mark[at(a, c)];
+      if (before && after) for (let k = c0; k < c; k++) mark[at(a, k)] = 0;
+    }
+  }
+}
+
+/** Remove long horizontal and vertical ruled lines (cell borders, underlines, comb separators) from a binary crop. */
+export function removeRuledLines(img: GrayImage, options: LineRemovalOptions = {}): LineRemoval {
+  const minH = options.minHorizontal ?? Math.max(20, Math.round(img.width * 0.4));
+  const minV = options.minVertical ?? Math.max(12, Math.round(img.height * 0.6));
+  const horizontal = markRuns(img, true, minH);
+  const anchored = options.minAnchoredVertical;
+  const vertical = markRuns(img, false, minV, anchored !== undefined ? { min: anchored, rules: horizontal } : undefined);
+  if (options.repairCrossings ?? true) {
+    repair(img, horizontal, true);
+    repair(img, vertical, false);
+  }
+  const out = { width: img.width, height: img.height, data: img.data.slice() };
+  for (let i = 0; i < out.data.length; i++) if (horizontal[i] || vertical[i]) out.data[i] = PAPER;
+  return { image: out, horizontal, vertical };
+}

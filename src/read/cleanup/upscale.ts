@@ -1,0 +1,61 @@
+import type { GrayImage } from '../../page/raster.js';
+import { createGray } from '../../page/raster.js';
+import { labelComponents } from './components.js';
+import { thresholdAt } from './binary.js';
+
+/**
+ * Typical height of the characters in a binary crop: the median height of components at least 3 px tall.
+ * For mixed-case text that is close to the x-height (most letters are x-height letters); for digits and capitals
+ * it is the cap height, which is what tesseract sees as the line's body there.
+ */
+export function characterHeight(img: GrayImage): number | null {
+  const heights = labelComponents(img)
+    .components.map((c) => c.box.h)
+    .filter((h) => h >= 3)
+    .sort((a, b) => a - b);
+  if (heights.length === 0) return null;
+  return heights[Math.floor(heights.length / 2)];
+}
+
+/** Bilinear resampling by a factor (pixel centres aligned; common practice). */
+export function resizeBilinear(img: GrayImage, factor: number): GrayImage {
+  const w = Math.max(1, Math.round(img.width * factor));
+  const h = Math.max(1, Math.round(img.height * factor));
+  const out = createGray(w, h);
+  const sx = img.width / w, sy = img.height / h;
+  for (let y = 0; y < h; y++) {
+    const fy = Math.min(img.height - 1, Math.max(0, (y + 0.5) * sy - 0.5));
+    const y0 = Math.floor(fy), y1 = Math.min(img.height - 1, y0 + 1), ty = fy - y0;
+    for (let x = 0; x < w; x++) {
+      const fx = Math.min(img.width - 1, Math.max(0, (x + 0.5) * sx - 0.5));
+      const x0 = Math.floor(fx), x1 = Math.min(img.width - 1, x0 + 1), tx = fx - x0;
+      const a = img.data[y0 * img.width + x0], b = img.data[y0 * img.width + x1];
+      const c = img.data[y1 * img.width + x0], d = img.data[y1 * img.width + x1];
+      out.data[y * w + x] = Math.round((a * (1 - tx) + b * tx) * (1 - ty) + (c * (1 - tx) + d * tx) * ty);
+    }
+  }
+  return out;
+}
+
+export interface UpscaleOptions {
+  /**
+   * Character height to scale to, pixels. Tesseract's documentation says accuracy drops below an x-height of about
+   * 10 px and that 10 pt text at 300 dpi has an x-height near 20 px (tessdoc "Improving the quality of the output",
+   * from memory); the default is set by measurement on bench/cleanup-gain.ts.
+   */
+  target?: number;
+  /** Never shrink below this factor nor grow beyond maxFactor. */
+  minFactor?: number;
+  maxFactor?: number;
+}
+
+export const DEFAULT_CHARACTER_HEIGHT = 24;
+
+/** Scale a binary crop so its characters reach the target height; the resampled edges are re-thresholded at mid-gray. */
+export function upscaleToCharacterHeight(img: GrayImage, options: UpscaleOptions = {}): { image: GrayImage; factor: number } {
+  const current = characterHeight(img);
+  if (current === null) return { image: img, factor: 1 };
+  const factor = Math.min(options.maxFactor ?? 4, Math.max(options.minFactor ?? 0.5, (options.target ?? DEFAULT_CHARACTER_HEIGHT) / current));
+  if (Math.abs(factor - 1) < 0.1) return { image: img, factor: 1 };
+  return { image: thresholdAt(resizeBilinear(img, factor), 127), factor };
+}

@@ -1,0 +1,118 @@
+import { createRequire } from 'node:module';
+import path from 'node:path';
+import { createWorker, OEM, PSM, type Worker } from 'tesseract.js';
+import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
+import type { GrayImage } from '../page/raster.js';
+import { grayToPng } from '../page/raster.js';
+
+/** What one OCR call needs besides the pixels. */
+export interface OcrRequest {
+  mode: OcrMode;
+  /** The only characters tesseract may return (tessedit_char_whitelist); all when absent. */
+  allowed?: string;
+}
+
+/** Tesseract page-segmentation mode per field mode (tesseract's --psm table: 6 block, 7 line, 8 word, 10 char). */
+export const PSM_FOR_MODE: Record<OcrMode, PSM> = {
+  block: PSM.SINGLE_BLOCK,
+  line: PSM.SINGLE_LINE,
+  word: PSM.SINGLE_WORD,
+  char: PSM.SINGLE_CHAR,
+};
+
+/**
+ * The traineddata shipped in @tesseract.js-data/eng (integerized "best" LSTM model). A local folder path makes
+ * tesseract.js read the file from disk; it fetches only when langPath is a URL or absent, so this never downloads.
+ */
+export function englishLangPath(): string {
+  const require = createRequire(import.meta.url);
+  return path.join(path.dirname(require.resolve('@tesseract.js-data/eng/package.json')), '4.0.0_best_int');
+}
+
+interface TesseractWord {
+  text: string;
+  confidence: number;
+}
+interface TesseractPage {
+  text: string;
+  confidence: number;
+  blocks: { paragraphs: { lines: { words: TesseractWord[] }[] }[] }[] | null;
+}
+
+function wordsOf(page: TesseractPage): OcrWord[] {
+  const out: OcrWord[] = [];
+  for (const block of page.blocks ?? [])
+    for (const par of block.paragraphs)
+      for (const line of par.lines)
+        for (const w of line.words) if (w.text.trim() !== '') out.push({ text: w.text, confidence: w.confidence / 100 });
+  return out;
+}
+
+/**
+ * One tesseract.js worker, created on first use and reused for every crop. Calls are serialized because the
+ * page-segmentation mode and whitelist are worker-wide parameters set right before each recognize.
+ */
+export class OcrEngine {
+  private worker: Promise<Worker> | null = null;
+  private queue: Promise<unknown> = Promise.resolve();
+  private lastParams = '';
+
+  private start(): Promise<Worker> {
+    this.worker ??= createWorker('eng', OEM.LSTM_ONLY, {
+      langPath: englishLangPath(),
+      cacheMethod: 'none',
+      gzip: true,
+    });
+    return this.worker;
+  }
+
+  /** Read a crop; text is trimmed, confidences are 0..1. */
+  read(image: GrayImage, request: OcrRequest): Promise<TextReading> {
+    const job = this.queue.then(() => this.recognize(image, request));
+    this.queue = job.catch(() => undefined);
+    return job;
+  }
+
+  private async recognize(image: GrayImage, request: OcrRequest): Promise<TextReading> {
+    const worker = await this.start();
+    const params = {
+      tessedit_pageseg_mode: PSM_FOR_MODE[request.mode],
+      tessedit_char_whitelist: request.allowed ?? '',
+      // Crops carry no resolution; a fixed value stops tesseract guessing one per crop. 300 dpi is the scan
+      // resolution tesseract's documentation recommends (tessdoc "Improving the quality of the output", from memory).
+      user_defined_dpi: '300',
+    };
+    const key = JSON.stringify(params);
+    if (key !== this.lastParams) {
+      await worker.setParameters(params);
+      this.lastParams = key;
+    }
+    const png = await grayToPng(image);
+    const { data } = await worker.recognize(png, {}, { text: true, blocks: true });
+    const page = data as unknown as TesseractPage;
+    return { kind: 'text', text: page.text.trim(), words: wordsOf(page), confidence: page.confidence / 100 };
+  }
+
+  /** Terminate the worker; a later read starts a fresh one. */
+  async close(): Promise<void> {
+    const w = this.worker;
+    this.worker = null;
+    this.lastParams = '';
+    if (w) await (await w).terminate();
+  }
+}
+
+let shared: OcrEngine | null = null;
+
+/** The process-wide engine (one worker per process). */
+export function sharedOcrEngine(): OcrEngine {
+  shared ??= new OcrEngine();
+  return shared;
+}
+
+/** Close the process-wide engine at the end of a run. */
+export async function closeSharedOcrEngine(): Promise<void> {
+  const e = shared;
+  shared = null;
+  if (e) await e.close();
+}
