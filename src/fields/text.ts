@@ -1,27 +1,18 @@
 import { z } from 'zod';
-import type { FieldType, Interpretation, Reading } from './types.js';
+import type { FieldType, Interpretation } from './types.js';
+import { emptyInterpretation } from './interpretation.js';
+import { ocrText } from './ocr-text.js';
 
 const options = z
   .object({
     pattern: z.string().optional().describe('Regular expression the whole cleaned value must match.'),
     minLength: z.number().int().min(0).optional(),
     maxLength: z.number().int().min(1).optional(),
-    case: z.enum(['as_read', 'upper', 'lower', 'title']).default('as_read'),
+    case: z.enum(['as_read', 'upper', 'lower', 'title']).default('as_read').describe('Case of the stored value (default as_read)'),
   })
   .strict();
 
 export type TextOptions = z.infer<typeof options>;
-
-/** Collapse whitespace and strip stray edge punctuation that OCR produces from borders (common practice). */
-export function cleanOcrText(raw: string): string {
-  return raw
-    .replace(/[\u2018\u2019]/g, "'")
-    .replace(/[\u201c\u201d]/g, '"')
-    .replace(/\s+/g, ' ')
-    .replace(/^[\s|\]\[_~`.,;:!'"-]+/, '')
-    .replace(/[\s|\]\[_~`,;:!'"-]+$/, '')
-    .trim();
-}
 
 function applyCase(s: string, c: TextOptions['case']): string {
   if (c === 'upper') return s.toUpperCase();
@@ -31,11 +22,12 @@ function applyCase(s: string, c: TextOptions['case']): string {
 }
 
 function check(value: string, o: TextOptions): Interpretation {
-  if (value === '') return { value: null, outcome: 'empty', confidence: 1, reasons: [] };
+  if (value === '') return emptyInterpretation();
   const reasons: string[] = [];
   if (o.minLength !== undefined && value.length < o.minLength) reasons.push('too_short');
   if (o.maxLength !== undefined && value.length > o.maxLength) reasons.push('too_long');
   if (o.pattern !== undefined && !new RegExp(`^(?:${o.pattern})$`, 'u').test(value)) reasons.push('pattern_mismatch');
+  // Free text keeps what was read even when a check fails, so a reviewer sees it next to the reason.
   return { value, outcome: reasons.length ? 'invalid' : 'valid', confidence: 1, reasons };
 }
 
@@ -44,9 +36,9 @@ export const textField: FieldType<TextOptions> = {
   description: 'Free text such as a name or an address line.',
   options,
   reader: 'ocr',
-  interpret(reading: Reading, o) {
-    if (reading.kind !== 'text') throw new Error('text fields are read by OCR');
-    return check(applyCase(cleanOcrText(reading.text), o.case), o);
+  ocrDefaults: () => ({ mode: 'line' }),
+  interpret(reading, o) {
+    return check(applyCase(ocrText(reading, 'text'), o.case), o);
   },
   parseCorrection(text, o) {
     return check(applyCase(text.replace(/\s+/g, ' ').trim(), o.case), o);

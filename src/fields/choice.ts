@@ -1,0 +1,76 @@
+import { z } from 'zod';
+import type { FieldPart, FieldType, Interpretation } from './types.js';
+import { emptyInterpretation, invalidInterpretation, validInterpretation } from './interpretation.js';
+import { decideMark, markThresholds, NO_OUTLINE_FACTOR, THRESHOLD_ORDER_MESSAGE, thresholdsOrdered } from './mark-decision.js';
+
+const RegionTuple = z
+  .tuple([z.number().min(0), z.number().min(0), z.number().positive(), z.number().positive()])
+  .describe('[x, y, width, height] of this choice\'s printed box on the reference page');
+
+const options = z
+  .object({
+    multiple: z.boolean().default(false).describe('Several boxes may be ticked (default false: exactly one)'),
+    choices: z
+      .array(z.object({ value: z.string().min(1), region: RegionTuple }).strict())
+      .min(2)
+      .refine((cs) => new Set(cs.map((c) => c.value)).size === cs.length, { message: 'choice values must be unique' }),
+    ...markThresholds,
+  })
+  .strict()
+  .refine(thresholdsOrdered, { message: THRESHOLD_ORDER_MESSAGE });
+
+export type ChoiceOptions = z.infer<typeof options>;
+
+export const choiceField: FieldType<ChoiceOptions> = {
+  name: 'choice',
+  description: 'A group of printed boxes forming one answer: one value, or a list when multiple is true.',
+  options,
+  reader: 'mark',
+  parts(o): FieldPart[] {
+    return o.choices.map((c) => ({ key: c.value, region: c.region }));
+  },
+  interpret(reading, o): Interpretation {
+    if (reading.kind !== 'marks') throw new Error('choice fields are read as marks');
+    const byKey = new Map(reading.marks.map((m) => [m.key, m]));
+    const checked: string[] = [];
+    let ambiguous = false;
+    let confidence = 1;
+    let outlineMissing = false;
+    for (const c of o.choices) {
+      const m = byKey.get(c.value);
+      if (!m) throw new Error(`choice reading lacks the box for "${c.value}"`);
+      const d = decideMark(m.fillRatio, o);
+      // The group is as trustworthy as its least clear box.
+      confidence = Math.min(confidence, d.confidence * (m.boxFound ? 1 : NO_OUTLINE_FACTOR));
+      if (!m.boxFound) outlineMissing = true;
+      if (d.state === 'checked') checked.push(c.value);
+      if (d.state === 'ambiguous') ambiguous = true;
+    }
+    const reasons = outlineMissing ? ['box_not_found'] : [];
+    if (ambiguous) return { value: null, outcome: 'ambiguous', confidence, reasons: [...reasons, 'ambiguous_mark'] };
+    if (o.multiple) return checked.length ? validInterpretation(checked, confidence, reasons) : emptyInterpretation(reasons);
+    if (checked.length === 1) return validInterpretation(checked[0], confidence, reasons);
+    // One answer expected: nothing ticked, or several, needs a person (a skipped question or a changed mind).
+    return {
+      value: null,
+      outcome: 'ambiguous',
+      confidence,
+      reasons: [...reasons, checked.length === 0 ? 'no_choice_marked' : 'several_choices_marked'],
+    };
+  },
+  parseCorrection(text, o) {
+    const typed = text
+      .split(/[,;]/)
+      .map((t) => t.trim())
+      .filter((t) => t !== '');
+    if (typed.length === 0) return emptyInterpretation();
+    const values: string[] = [];
+    for (const t of typed) {
+      const hit = o.choices.find((c) => c.value.toLowerCase() === t.toLowerCase());
+      if (!hit) return invalidInterpretation(['not_a_choice']);
+      if (!values.includes(hit.value)) values.push(hit.value);
+    }
+    if (o.multiple) return validInterpretation(o.choices.map((c) => c.value).filter((v) => values.includes(v)));
+    return values.length === 1 ? validInterpretation(values[0]) : invalidInterpretation(['several_choices_marked']);
+  },
+};

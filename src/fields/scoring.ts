@@ -1,0 +1,106 @@
+import type { Interpretation, Reading } from './types.js';
+
+/**
+ * Confidence and status of one field, from everything known about it (pure).
+ *
+ * confidence = location × reading × value, each factor 0..1:
+ *  - location: how the area was found. A detection contributes 0.8 + 0.2 × its score (detector scores rank well but
+ *    are not calibrated probabilities, so a low score dents rather than sinks the field); the schema region after
+ *    page alignment (region fallback) is a fixed 0.85; nothing located is 0.
+ *  - reading: for OCR, 0.6 × the weakest word's confidence + 0.4 × the mean word confidence — one garbled word
+ *    spoils a date or a phone number however clean the rest is; with no words, tesseract's crop confidence. Marks
+ *    and ink readings have no OCR and contribute 1 (their evidence is in `value`).
+ *  - value: the field type's own confidence (repairs, fuzzy matches, distance of a mark from its thresholds).
+ * The weights and constants are common practice, chosen so that one weak factor alone can send a field to review
+ * under the default threshold 0.75 while a clean read with a middling detection score is accepted.
+ *
+ * Status: missing when required and nothing was located or read; invalid when the value fails its type's checks;
+ * review when the evidence is ambiguous or the confidence is under the review threshold; accepted otherwise. An
+ * optional field left blank is accepted with a null value.
+ */
+export interface ScoreInput {
+  detectionScore: number | null;
+  source: 'detection' | 'region' | 'none';
+  reading: Reading | null;
+  interpretation: Interpretation | null;
+  reviewThreshold: number;
+  required: boolean;
+}
+
+export interface FieldScore {
+  status: 'accepted' | 'review' | 'missing' | 'invalid';
+  confidence: number;
+  reasons: string[];
+  scores: Record<string, number>;
+}
+
+/** Under this detector score the detection itself is worth a reason code (common practice for YOLO-style scores). */
+export const LOW_DETECTION_SCORE = 0.35;
+/** Location factor for a field read at its schema region because no detection matched. */
+export const REGION_FALLBACK_FACTOR = 0.85;
+
+export function locationFactor(source: ScoreInput['source'], detectionScore: number | null): number {
+  if (source === 'none') return 0;
+  if (source === 'region') return REGION_FALLBACK_FACTOR;
+  return 0.8 + 0.2 * clamp01(detectionScore ?? 0);
+}
+
+/** OCR factor: the weakest word counts most (see the formula above). */
+export function ocrFactor(reading: Reading): number {
+  if (reading.kind !== 'text') return 1;
+  const confs = reading.words.map((w) => clamp01(w.confidence));
+  if (confs.length === 0) return clamp01(reading.confidence);
+  const weakest = Math.min(...confs);
+  const mean = confs.reduce((a, b) => a + b, 0) / confs.length;
+  return 0.6 * weakest + 0.4 * mean;
+}
+
+function clamp01(v: number): number {
+  return Number.isFinite(v) ? Math.min(1, Math.max(0, v)) : 0;
+}
+
+function round3(v: number): number {
+  return Math.round(v * 1000) / 1000;
+}
+
+function unique(codes: string[]): string[] {
+  return [...new Set(codes)];
+}
+
+export function scoreField(input: ScoreInput): FieldScore {
+  const { source, detectionScore, reading, interpretation, reviewThreshold, required } = input;
+  const scores: Record<string, number> = {};
+  const reasons: string[] = [];
+  const location = locationFactor(source, detectionScore);
+  scores.location = round3(location);
+  if (source === 'detection' && detectionScore !== null) {
+    scores.detection = round3(clamp01(detectionScore));
+    if (detectionScore < LOW_DETECTION_SCORE) reasons.push('low_detection_score');
+  }
+  if (source === 'region') reasons.push('region_fallback');
+
+  if (source === 'none' || reading === null || interpretation === null) {
+    reasons.push(source === 'none' ? 'not_located' : 'not_read');
+    return { status: required ? 'missing' : 'review', confidence: 0, reasons: unique(reasons), scores };
+  }
+
+  // A blank area has no OCR words worth scoring; its evidence is only where it was looked for.
+  const blank = interpretation.outcome === 'empty';
+  const read = blank ? 1 : ocrFactor(reading);
+  if (reading.kind === 'text' && !blank) {
+    scores.ocr = round3(read);
+    if (read < reviewThreshold) reasons.push('low_ocr_confidence');
+  }
+  scores.value = round3(clamp01(interpretation.confidence));
+  const confidence = round3(clamp01(location * read * interpretation.confidence));
+  reasons.push(...interpretation.reasons);
+
+  let status: FieldScore['status'];
+  if (blank) status = required ? 'missing' : confidence < reviewThreshold ? 'review' : 'accepted';
+  else if (interpretation.outcome === 'invalid') status = 'invalid';
+  else if (interpretation.outcome === 'ambiguous') status = 'review';
+  else status = confidence < reviewThreshold ? 'review' : 'accepted';
+  if (status === 'missing') reasons.push('required_empty');
+  if (status === 'review' && reasons.length === 0) reasons.push('low_confidence');
+  return { status, confidence, reasons: unique(reasons), scores };
+}
