@@ -1,0 +1,280 @@
+import type { Affine } from './geometry.js';
+import { invertAffine } from './geometry.js';
+import type { Alignment } from './alignment.js';
+import type { InkMap } from './ink-map.js';
+import { boxBlur, fromLevel, gradients, inkMapOf, projection, toLevel } from './ink-map.js';
+import type { GrayImage } from './raster.js';
+
+/**
+ * Direct registration of a page to the blank reference image, coarse to fine:
+ * 1. at a coarse level, each axis's scale and shift from the best normalized correlation of the ink projection
+ *    profiles (rows for y, columns for x) — cheap, global, and indifferent to where the filled-in ink lies;
+ * 2. at each finer level, an affine refinement maximizing the enhanced correlation coefficient (ECC) of
+ *    Evangelidis & Psarakis, "Parametric image alignment using enhanced correlation coefficient maximization",
+ *    IEEE PAMI 30(10), 2008 — zero-mean normalized correlation, so it ignores contrast and paper tone.
+ */
+
+export interface ImageAlignOptions {
+  /** Long sides, in map pixels, of the levels refined from coarse to fine (default [200, 400, 800]). */
+  levels?: number[];
+  /** Search range of each axis's scale relative to the size ratio of the two images (default [0.8, 1.25]). */
+  scaleRange?: [number, number];
+  /** Gauss-Newton iterations per level (default 30). */
+  iterations?: number;
+  /** Start from this reference -> page transform instead of the profile search. */
+  initialRefToPage?: Affine;
+}
+
+interface AxisFit {
+  scale: number;
+  shift: number;
+  ncc: number;
+}
+
+/** Best scale and shift mapping the reference profile onto the page profile: page(s*u + t) ~ ref(u). */
+function fitProfile(ref: Float64Array, page: Float64Array, scales: [number, number], step: number): AxisFit {
+  const n = ref.length;
+  let mr = 0;
+  for (let i = 0; i < n; i++) mr += ref[i];
+  mr /= n;
+  const rz = new Float64Array(n);
+  let rn = 0;
+  for (let i = 0; i < n; i++) {
+    rz[i] = ref[i] - mr;
+    rn += rz[i] * rz[i];
+  }
+  const pv = new Float64Array(n);
+  const m = page.length;
+  let best: AxisFit = { scale: 1, shift: 0, ncc: -Infinity };
+  const sStep = 0.005;
+  for (let s = scales[0]; s <= scales[1] + 1e-9; s += sStep) {
+    // Shifts that keep at least half of the reference inside the page.
+    const tMin = -0.5 * s * n;
+    const tMax = m - 0.5 * s * n;
+    for (let t = tMin; t <= tMax; t += step) {
+      let mp = 0;
+      for (let i = 0; i < n; i++) {
+        const u = s * (i + 0.5) + t - 0.5;
+        const j = Math.floor(u);
+        const f = u - j;
+        const a = j >= 0 && j < m ? page[j] : 0;
+        const b = j + 1 >= 0 && j + 1 < m ? page[j + 1] : 0;
+        pv[i] = a + (b - a) * f;
+        mp += pv[i];
+      }
+      mp /= n;
+      let num = 0;
+      let pn = 0;
+      for (let i = 0; i < n; i++) {
+        const p = pv[i] - mp;
+        num += p * rz[i];
+        pn += p * p;
+      }
+      const ncc = pn > 0 && rn > 0 ? num / Math.sqrt(pn * rn) : -1;
+      if (ncc > best.ncc) best = { scale: s, shift: t, ncc };
+    }
+  }
+  return best;
+}
+
+/** Solve the symmetric 6x6 system H x = g by Gaussian elimination with partial pivoting; null if singular. */
+function solve6(H: Float64Array, g: Float64Array): Float64Array | null {
+  const n = 6;
+  const A = new Float64Array(n * (n + 1));
+  for (let r = 0; r < n; r++) {
+    for (let c = 0; c < n; c++) A[r * (n + 1) + c] = H[r * n + c];
+    A[r * (n + 1) + n] = g[r];
+  }
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(A[r * (n + 1) + c]) > Math.abs(A[p * (n + 1) + c])) p = r;
+    if (Math.abs(A[p * (n + 1) + c]) < 1e-12) return null;
+    if (p !== c) for (let k = 0; k <= n; k++) [A[c * (n + 1) + k], A[p * (n + 1) + k]] = [A[p * (n + 1) + k], A[c * (n + 1) + k]];
+    for (let r = c + 1; r < n; r++) {
+      const f = A[r * (n + 1) + c] / A[c * (n + 1) + c];
+      for (let k = c; k <= n; k++) A[r * (n + 1) + k] -= f * A[c * (n + 1) + k];
+    }
+  }
+  const x = new Float64Array(n);
+  for (let r = n - 1; r >= 0; r--) {
+    let s = A[r * (n + 1) + n];
+    for (let k = r + 1; k < n; k++) s -= A[r * (n + 1) + k] * x[k];
+    x[r] = s / A[r * (n + 1) + r];
+  }
+  return x;
+}
+
+interface EccResult {
+  refToPage: Affine;
+  rho: number;
+}
+
+/**
+ * ECC maximization at one level: W maps reference map coordinates to page map coordinates.
+ * Parameters are the affine entries in a frame centred and scaled on the reference map, so the normal
+ * equations stay well conditioned.
+ */
+function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number): EccResult {
+  const { gx, gy } = gradients(page);
+  const rw = ref.width;
+  const rh = ref.height;
+  const pw = page.width;
+  const ph = page.height;
+  const cx = rw / 2;
+  const cy = rh / 2;
+  const sc = Math.max(rw, rh) / 2;
+  // W(x) = init expressed on normalized coordinates X = (x - cx)/sc: u = A X + c'.
+  let p = [init.a * sc, init.b * sc, init.a * cx + init.b * cy + init.c, init.d * sc, init.e * sc, init.d * cx + init.e * cy + init.f];
+  let rho = -1;
+  const H = new Float64Array(36);
+  const gW = new Float64Array(6);
+  const gR = new Float64Array(6);
+  const g1 = new Float64Array(6);
+  const J = new Float64Array(6);
+  for (let it = 0; it < iterations; it++) {
+    H.fill(0);
+    gW.fill(0);
+    gR.fill(0);
+    g1.fill(0);
+    let n = 0;
+    let sw = 0;
+    let sr = 0;
+    let sww = 0;
+    let srr = 0;
+    let swr = 0;
+    for (let y = 0; y < rh; y++) {
+      const Y = (y + 0.5 - cy) / sc;
+      for (let x = 0; x < rw; x++) {
+        const X = (x + 0.5 - cx) / sc;
+        const u = p[0] * X + p[1] * Y + p[2] - 0.5;
+        const v = p[3] * X + p[4] * Y + p[5] - 0.5;
+        const x0 = Math.floor(u);
+        const y0 = Math.floor(v);
+        if (x0 < 0 || y0 < 0 || x0 + 1 >= pw || y0 + 1 >= ph) continue;
+        const tx = u - x0;
+        const ty = v - y0;
+        const o = y0 * pw + x0;
+        const w00 = (1 - tx) * (1 - ty);
+        const w10 = tx * (1 - ty);
+        const w01 = (1 - tx) * ty;
+        const w11 = tx * ty;
+        const iw = page.data[o] * w00 + page.data[o + 1] * w10 + page.data[o + pw] * w01 + page.data[o + pw + 1] * w11;
+        const ix = gx[o] * w00 + gx[o + 1] * w10 + gx[o + pw] * w01 + gx[o + pw + 1] * w11;
+        const iy = gy[o] * w00 + gy[o + 1] * w10 + gy[o + pw] * w01 + gy[o + pw + 1] * w11;
+        const ir = ref.data[y * rw + x];
+        J[0] = ix * X;
+        J[1] = ix * Y;
+        J[2] = ix;
+        J[3] = iy * X;
+        J[4] = iy * Y;
+        J[5] = iy;
+        for (let r = 0; r < 6; r++) {
+          const jr = J[r];
+          gW[r] += jr * iw;
+          gR[r] += jr * ir;
+          g1[r] += jr;
+          for (let c = r; c < 6; c++) H[r * 6 + c] += jr * J[c];
+        }
+        n++;
+        sw += iw;
+        sr += ir;
+        sww += iw * iw;
+        srr += ir * ir;
+        swr += iw * ir;
+      }
+    }
+    if (n < 100) break;
+    for (let r = 0; r < 6; r++) for (let c = 0; c < r; c++) H[r * 6 + c] = H[c * 6 + r];
+    const mw = sw / n;
+    const mr = sr / n;
+    // Zero-mean versions: G^T (i - mean) = G^T i - mean * G^T 1.
+    const pW = new Float64Array(6);
+    const pR = new Float64Array(6);
+    for (let r = 0; r < 6; r++) {
+      pW[r] = gW[r] - mw * g1[r];
+      pR[r] = gR[r] - mr * g1[r];
+    }
+    const wNorm2 = sww - n * mw * mw;
+    const rNorm2 = srr - n * mr * mr;
+    const corr = swr - n * mw * mr;
+    if (wNorm2 <= 0 || rNorm2 <= 0) break;
+    rho = corr / Math.sqrt(wNorm2 * rNorm2);
+    const hW = solve6(H, pW);
+    const hR = solve6(H, pR);
+    if (!hW || !hR) break;
+    let pWhW = 0;
+    let pRhW = 0;
+    for (let r = 0; r < 6; r++) {
+      pWhW += pW[r] * hW[r];
+      pRhW += pR[r] * hW[r];
+    }
+    const lambdaN = wNorm2 - pWhW;
+    const lambdaD = corr - pRhW;
+    if (lambdaD <= 0) break;
+    const lambda = lambdaN / lambdaD;
+    // error = lambda * ir - iw; G^T error = lambda * pR - pW; delta = H^-1 G^T error.
+    const e = new Float64Array(6);
+    for (let r = 0; r < 6; r++) e[r] = lambda * pR[r] - pW[r];
+    const delta = solve6(H, e);
+    if (!delta) break;
+    p = p.map((v, i) => v + delta[i]);
+    // Largest displacement of the map's corners (|X|,|Y| <= 1) caused by the update, in page map pixels.
+    const move = Math.abs(delta[0]) + Math.abs(delta[1]) + Math.abs(delta[2]) + Math.abs(delta[3]) + Math.abs(delta[4]) + Math.abs(delta[5]);
+    if (move < 0.005) break;
+  }
+  const a = p[0] / sc;
+  const b = p[1] / sc;
+  const d = p[3] / sc;
+  const e = p[4] / sc;
+  return { refToPage: { a, b, c: p[2] - a * cx - b * cy, d, e, f: p[5] - d * cx - e * cy }, rho };
+}
+
+function factorFor(img: GrayImage, longSide: number): number {
+  return Math.max(1, Math.round(Math.max(img.width, img.height) / longSide));
+}
+
+/** Profile-based start: per-axis scale and shift at a coarse level, as a full-resolution ref -> page transform. */
+function profileStart(page: GrayImage, reference: GrayImage, longSide: number, range: [number, number]): { t: Affine; ncc: number } {
+  const kr = factorFor(reference, longSide);
+  const kp = factorFor(page, longSide);
+  const r = boxBlur(inkMapOf(reference, kr), 1);
+  const p = boxBlur(inkMapOf(page, kp), 1);
+  // Expected scale if page and reference show the same sheet: the ratio of their long sides.
+  const s0 = Math.max(page.width, page.height) / kp / (Math.max(reference.width, reference.height) / kr);
+  const sr: [number, number] = [s0 * range[0], s0 * range[1]];
+  const fy = fitProfile(projection(r, 'y'), projection(p, 'y'), sr, 0.5);
+  const fx = fitProfile(projection(r, 'x'), projection(p, 'x'), sr, 0.5);
+  const level: Affine = { a: fx.scale, b: 0, c: fx.shift, d: 0, e: fy.scale, f: fy.shift };
+  return { t: fromLevel(level, kr, kp), ncc: Math.min(fx.ncc, fy.ncc) };
+}
+
+/**
+ * Register a page to the blank reference image. Returns the page -> reference transform, with score = the ECC
+ * correlation (0..1 in practice) at the finest level. Pure.
+ */
+export function alignByImage(page: GrayImage, reference: GrayImage, options: ImageAlignOptions = {}): Alignment {
+  const levels = options.levels ?? [200, 400, 800];
+  const iterations = options.iterations ?? 30;
+  let refToPage = options.initialRefToPage ?? profileStart(page, reference, levels[0], options.scaleRange ?? [0.8, 1.25]).t;
+  let rho = -1;
+  for (let li = 0; li < levels.length; li++) {
+    const kr = factorFor(reference, levels[li]);
+    const kp = factorFor(page, levels[li]);
+    // Wider blur at the coarsest level widens the basin of convergence; finer levels keep detail.
+    const radius = li === 0 ? 2 : 1;
+    const r = boxBlur(boxBlur(inkMapOf(reference, kr), radius), radius);
+    const p = boxBlur(boxBlur(inkMapOf(page, kp), radius), radius);
+    const res = refineEcc(r, p, toLevel(refToPage, kr, kp), iterations);
+    if (!(res.rho > 0)) break;
+    refToPage = fromLevel(res.refToPage, kr, kp);
+    rho = res.rho;
+  }
+  return {
+    method: 'image',
+    transform: invertAffine(refToPage),
+    refToPage,
+    residual: null,
+    inliers: 0,
+    score: Math.max(0, rho),
+  };
+}
