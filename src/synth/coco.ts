@@ -1,0 +1,71 @@
+import type { Box } from '../page/geometry.js';
+import { DETECTOR_CLASSES, type Layout } from './layout-model.js';
+import type { ScanParams } from './scan-params.js';
+import { boxTuple, scanBox } from './truth.js';
+
+/** COCO object-detection format (cocodataset.org, "Data format": images, annotations with bbox [x,y,width,height]
+ *  in pixels from the top-left corner, categories). */
+export interface CocoImage {
+  id: number;
+  file_name: string;
+  width: number;
+  height: number;
+}
+
+export interface CocoAnnotation {
+  id: number;
+  image_id: number;
+  category_id: number;
+  bbox: [number, number, number, number];
+  area: number;
+  iscrowd: 0;
+}
+
+export interface CocoDataset {
+  info: { description: string; version: string };
+  images: CocoImage[];
+  annotations: CocoAnnotation[];
+  categories: { id: number; name: string; supercategory: string }[];
+}
+
+/** Category ids 1..4 in the detector's class order. */
+export function cocoCategories(): CocoDataset['categories'] {
+  return DETECTOR_CLASSES.map((name, i) => ({ id: i + 1, name, supercategory: 'entry_area' }));
+}
+
+/** Smallest box side kept as a label: slivers left after clamping at the page edge carry no signal. */
+const MIN_SIDE = 3;
+
+/** Collects the pages and entry-area boxes of one generated set. */
+export class CocoBuilder {
+  private readonly images: CocoImage[] = [];
+  private readonly annotations: CocoAnnotation[] = [];
+
+  addPage(fileName: string, layout: Layout, scan: ScanParams): number {
+    const imageId = this.images.length + 1;
+    this.images.push({ id: imageId, file_name: fileName, width: scan.width, height: scan.height });
+    for (const field of layout.fields) {
+      for (const slot of field.slots) {
+        const b: Box = scanBox(scan.transform, slot.box, scan.width, scan.height);
+        if (b.w < MIN_SIDE || b.h < MIN_SIDE) continue;
+        this.annotations.push({
+          id: this.annotations.length + 1,
+          image_id: imageId,
+          category_id: DETECTOR_CLASSES.indexOf(slot.class) + 1,
+          bbox: boxTuple(b),
+          area: b.w * b.h,
+          iscrowd: 0,
+        });
+      }
+    }
+    return imageId;
+  }
+
+  get annotationCount(): number {
+    return this.annotations.length;
+  }
+
+  build(description: string): CocoDataset {
+    return { info: { description, version: '1' }, images: this.images, annotations: this.annotations, categories: cocoCategories() };
+  }
+}

@@ -1,0 +1,66 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import os from 'node:os';
+import path from 'node:path';
+
+/**
+ * Fonts for synthetic pages come from npm packages, not from the system, so that every machine draws the same
+ * glyphs. librsvg (inside sharp) finds fonts through fontconfig, which reads the file named by FONTCONFIG_FILE the
+ * first time text is laid out; so this must run before sharp renders any SVG text.
+ */
+
+/** Family names as the font files declare them. */
+export const FONT_FAMILIES = {
+  sans: 'DejaVu Sans',
+  serif: 'DejaVu Serif',
+  mono: 'DejaVu Sans Mono',
+  caveat: 'Caveat',
+  pen: 'Nanum Pen',
+} as const;
+
+export type FontKey = keyof typeof FONT_FAMILIES;
+
+const require = createRequire(import.meta.url);
+
+function packageDir(name: string): string {
+  return path.dirname(require.resolve(`${name}/package.json`));
+}
+
+/** Folders holding the npm-installed font files. */
+export function fontFolders(): string[] {
+  return [
+    path.join(packageDir('dejavu-fonts-ttf'), 'ttf'),
+    packageDir('@expo-google-fonts/caveat'),
+    packageDir('@expo-google-fonts/nanum-pen-script'),
+  ];
+}
+
+function escapeXml(s: string): string {
+  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
+let configured: string | undefined;
+
+/**
+ * Write a fonts.conf listing only the npm font folders into a fresh temp folder and point FONTCONFIG_FILE at it.
+ * Idempotent within a process; returns the config path.
+ */
+export function useBundledFonts(): string {
+  if (configured) return configured;
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'formglean-fonts-'));
+  const dirs = fontFolders()
+    .map((d) => `  <dir>${escapeXml(d)}</dir>`)
+    .join('\n');
+  const conf = `<?xml version="1.0"?>
+<!DOCTYPE fontconfig SYSTEM "fonts.dtd">
+<fontconfig>
+${dirs}
+  <cachedir>${escapeXml(path.join(dir, 'cache'))}</cachedir>
+</fontconfig>
+`;
+  const file = path.join(dir, 'fonts.conf');
+  writeFileSync(file, conf);
+  process.env.FONTCONFIG_FILE = file;
+  configured = file;
+  return file;
+}
