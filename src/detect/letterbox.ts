@@ -3,17 +3,20 @@ import { type GrayImage, sharpFromGray } from '../page/raster.js';
 
 /**
  * Letterbox: fit a page into the detector's fixed input size without distorting it. The page is scaled by one
- * factor so that it fits, centred, and the border is filled with white paper (1.0), the way single-stage detectors
- * are commonly fed (common practice; centred padding as in the widely used YOLO letterbox). Training code that
- * prepares pages for this runtime must letterbox the same way.
+ * factor so that it fits and the rest is filled with white paper (1.0), the way single-stage detectors are commonly
+ * fed (common practice). Where the page sits must match training: our training code (training/pages.py) puts it at
+ * the top-left, so that is the default; models trained with centred padding (as the widely used YOLO letterbox does)
+ * say so with metadata `letterbox_align` = "center".
  */
+export type LetterboxAlign = 'top-left' | 'center';
+
 export interface LetterboxGeometry {
   inputWidth: number;
   inputHeight: number;
   /** Size of the scaled page inside the input. */
   resizedWidth: number;
   resizedHeight: number;
-  /** Offset of the scaled page inside the input (white padding before it). */
+  /** Offset of the scaled page inside the input (white padding before it; 0 for top-left). */
   padX: number;
   padY: number;
   /** Page pixels → input pixels. */
@@ -33,6 +36,7 @@ export function letterboxGeometry(
   srcHeight: number,
   inputWidth: number,
   inputHeight: number,
+  align: LetterboxAlign = 'top-left',
 ): LetterboxGeometry {
   if (!(srcWidth > 0 && srcHeight > 0 && inputWidth > 0 && inputHeight > 0)) {
     throw new Error(`letterbox needs positive sizes, got page ${srcWidth}x${srcHeight} into ${inputWidth}x${inputHeight}`);
@@ -40,8 +44,8 @@ export function letterboxGeometry(
   const scale = Math.min(inputWidth / srcWidth, inputHeight / srcHeight);
   const resizedWidth = Math.min(inputWidth, Math.max(1, Math.round(srcWidth * scale)));
   const resizedHeight = Math.min(inputHeight, Math.max(1, Math.round(srcHeight * scale)));
-  const padX = Math.floor((inputWidth - resizedWidth) / 2);
-  const padY = Math.floor((inputHeight - resizedHeight) / 2);
+  const padX = align === 'center' ? Math.floor((inputWidth - resizedWidth) / 2) : 0;
+  const padY = align === 'center' ? Math.floor((inputHeight - resizedHeight) / 2) : 0;
   // Per-axis factors from the rounded size, so page edges land exactly on input pixel edges.
   const sx = resizedWidth / srcWidth;
   const sy = resizedHeight / srcHeight;
@@ -50,8 +54,13 @@ export function letterboxGeometry(
 }
 
 /** Scale and pad a page into the input size; returns the float tensor and the mapping. */
-export async function letterbox(page: GrayImage, inputWidth: number, inputHeight: number): Promise<LetterboxedPage> {
-  const g = letterboxGeometry(page.width, page.height, inputWidth, inputHeight);
+export async function letterbox(
+  page: GrayImage,
+  inputWidth: number,
+  inputHeight: number,
+  align: LetterboxAlign = 'top-left',
+): Promise<LetterboxedPage> {
+  const g = letterboxGeometry(page.width, page.height, inputWidth, inputHeight, align);
   const { data, info } = await sharpFromGray(page)
     .resize(g.resizedWidth, g.resizedHeight, { fit: 'fill' })
     .raw()

@@ -7,7 +7,7 @@ import { clampBox, transformBox } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { resolveClassNames } from './class-names.js';
 import { type OutputLayout, OUTPUT_LAYOUTS, decodeOutput, layoutsFitting } from './decode.js';
-import { letterbox } from './letterbox.js';
+import { type LetterboxAlign, letterbox } from './letterbox.js';
 import { nonMaxSuppression } from './nms.js';
 import { readOnnxMetadata } from './onnx-metadata.js';
 import type { DetectOptions, Detection, Detector } from './types.js';
@@ -15,7 +15,8 @@ import type { DetectOptions, Detection, Detector } from './types.js';
 /**
  * Defaults for detect():
  * - scoreThreshold 0.25: the usual default confidence cut of single-stage detectors at prediction time (common
- *   practice); the shipped model's card reports recall at this operating point.
+ *   practice). A model whose metadata carries `operating_threshold` (ours does: the threshold its card reports
+ *   recall at) uses that instead.
  * - iouThreshold 0.5: entry areas of one class on a form do not overlap, so two same-class boxes overlapping by more
  *   than half are one element found twice (0.5 is the common NMS setting, common practice).
  * - maxDetections 300: the usual per-image cap (common practice); a dense form page has well under that many
@@ -72,6 +73,8 @@ async function openDetector(modelPath: string, key: string, options: LoadDetecto
   }
   const classNames = await resolveClassNames(modelPath, metadata, options.classNamesFile);
   const layoutHint = readLayoutHint(modelPath, metadata);
+  const align = readAlign(modelPath, metadata);
+  const defaults = { ...DEFAULT_DETECT_OPTIONS, scoreThreshold: readOperatingThreshold(modelPath, metadata) };
 
   let session: InferenceSession;
   try {
@@ -89,7 +92,7 @@ async function openDetector(modelPath: string, key: string, options: LoadDetecto
   try {
     const [inputWidth, inputHeight] = inputSize(modelPath, session, metadata);
     checkOutput(modelPath, session, classNames.length, layoutHint);
-    return new OnnxDetector(key, modelPath, sha256, classNames, inputWidth, inputHeight, layoutHint, session);
+    return new OnnxDetector(key, modelPath, sha256, classNames, inputWidth, inputHeight, { layoutHint, align }, defaults, session);
   } catch (err) {
     await session.release();
     throw err;
@@ -103,6 +106,22 @@ function readLayoutHint(file: string, metadata: ReadonlyMap<string, string>): Ou
     throw configError(file, `metadata output_layout "${hint}" is not one of ${OUTPUT_LAYOUTS.join(', ')}`);
   }
   return hint as OutputLayout;
+}
+
+function readOperatingThreshold(file: string, metadata: ReadonlyMap<string, string>): number {
+  const text = metadata.get('operating_threshold');
+  if (text === undefined) return DEFAULT_DETECT_OPTIONS.scoreThreshold;
+  const t = Number(text);
+  if (!(t > 0 && t < 1)) throw configError(file, `metadata operating_threshold "${text}" is not a number between 0 and 1`);
+  return t;
+}
+
+function readAlign(file: string, metadata: ReadonlyMap<string, string>): LetterboxAlign {
+  const align = metadata.get('letterbox_align') ?? 'top-left';
+  if (align !== 'top-left' && align !== 'center') {
+    throw configError(file, `metadata letterbox_align "${align}" is not "top-left" or "center"`);
+  }
+  return align;
 }
 
 /** Width and height from the input shape [1, 1, H, W]; metadata `input_size` ("WxH") when the dims are symbolic. */
@@ -157,7 +176,8 @@ class OnnxDetector implements Detector {
     readonly classNames: readonly string[],
     readonly inputWidth: number,
     readonly inputHeight: number,
-    private readonly layoutHint: OutputLayout | undefined,
+    private readonly feed: { layoutHint: OutputLayout | undefined; align: LetterboxAlign },
+    readonly defaults: Readonly<Required<DetectOptions>>,
     private session: InferenceSession | undefined,
   ) {
     this.path = modelPath;
@@ -167,18 +187,18 @@ class OnnxDetector implements Detector {
   async detect(page: GrayImage, options: DetectOptions = {}): Promise<Detection[]> {
     const session = this.session;
     if (!session) throw configError(this.path, 'detector was closed');
-    const opts = { ...DEFAULT_DETECT_OPTIONS, ...definedOnly(options) };
+    const opts = { ...this.defaults, ...definedOnly(options) };
     if (page.width <= 0 || page.height <= 0 || page.data.length !== page.width * page.height) {
       throw new Error(`page raster ${page.width}x${page.height} with ${page.data.length} bytes is not a grayscale image`);
     }
-    const boxed = await letterbox(page, this.inputWidth, this.inputHeight);
+    const boxed = await letterbox(page, this.inputWidth, this.inputHeight, this.feed.align);
     const input = new Tensor('float32', boxed.tensor, [1, 1, this.inputHeight, this.inputWidth]);
     const outputs = await session.run({ [session.inputNames[0]]: input });
     const output = outputs[session.outputNames[0]] as Tensor;
     let candidates;
     try {
       if (output.type !== 'float32') throw new Error(`output type ${output.type}, expected float32`);
-      candidates = decodeOutput(output.data as Float32Array, output.dims, this.classNames.length, opts.scoreThreshold, this.layoutHint);
+      candidates = decodeOutput(output.data as Float32Array, output.dims, this.classNames.length, opts.scoreThreshold, this.feed.layoutHint);
     } catch (err) {
       throw configError(this.path, oneLine(err), err);
     } finally {

@@ -27,6 +27,8 @@ export interface Detector {
   readonly classNames: readonly string[];
   readonly inputWidth: number;
   readonly inputHeight: number;
+  /** Options detect() uses when the caller leaves them out (the score threshold may come from the model). */
+  readonly defaults?: Readonly<Required<DetectOptions>>;
   detect(page: GrayImage, options?: DetectOptions): Promise<Detection[]>;
   close(): Promise<void>;
 }

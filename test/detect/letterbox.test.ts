@@ -4,11 +4,14 @@ import { transformBox } from '../../src/page/geometry.js';
 import { createGray } from '../../src/page/raster.js';
 
 describe('letterbox geometry', () => {
-  it('fits a square page into a 96x64 input, centred with white side bands', () => {
-    // scale = min(96/300, 64/300) = 64/300; scaled page 64 x 64; padding (96 − 64)/2 = 16 on the left
+  it('fits a square page into a 96x64 input, at the top-left or centred', () => {
+    // scale = min(96/300, 64/300) = 64/300; scaled page 64 x 64; centred: padding (96 − 64)/2 = 16 on the left
     const g = letterboxGeometry(300, 300, 96, 64);
-    expect([g.resizedWidth, g.resizedHeight, g.padX, g.padY]).toEqual([64, 64, 16, 0]);
-    expect(transformBox(g.toInput, { x: 75, y: 150, w: 75, h: 75 })).toEqual({ x: 32, y: 32, w: 16, h: 16 });
+    expect([g.resizedWidth, g.resizedHeight, g.padX, g.padY]).toEqual([64, 64, 0, 0]);
+    expect(transformBox(g.toInput, { x: 75, y: 150, w: 75, h: 75 })).toEqual({ x: 16, y: 32, w: 16, h: 16 });
+    const c = letterboxGeometry(300, 300, 96, 64, 'center');
+    expect([c.padX, c.padY]).toEqual([16, 0]);
+    expect(transformBox(c.toInput, { x: 75, y: 150, w: 75, h: 75 })).toEqual({ x: 32, y: 32, w: 16, h: 16 });
   });
 
   it('maps boxes to the input and back to page pixels within 1 px, for many page sizes', () => {
@@ -16,8 +19,8 @@ describe('letterbox geometry', () => {
     let seed = 7;
     const rand = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
     const pages: [number, number][] = [[2550, 3300], [1700, 2200], [3300, 2550], [123, 457], [640, 640], [50, 30]];
-    for (const [w, h] of pages) {
-      const g = letterboxGeometry(w, h, 640, 640);
+    for (const [[w, h], align] of pages.flatMap((p) => [[p, 'top-left'], [p, 'center']] as const)) {
+      const g = letterboxGeometry(w, h, 640, 480, align);
       for (let i = 0; i < 50; i++) {
         const box = { x: rand() * w * 0.8, y: rand() * h * 0.8, w: 1 + rand() * w * 0.2, h: 1 + rand() * h * 0.2 };
         const back = transformBox(g.toSource, transformBox(g.toInput, box));
@@ -52,12 +55,14 @@ describe('letterbox on real pixels', () => {
     }
   });
 
-  it('fills the border of a tall page with paper white', async () => {
+  it('fills the rest of the input with paper white', async () => {
     const page = createGray(100, 400, 0); // all ink
-    const lb = await letterbox(page, 96, 64); // scale 0.16: 16 x 64 page, padX 40
-    expect([lb.resizedWidth, lb.resizedHeight, lb.padX, lb.padY]).toEqual([16, 64, 40, 0]);
-    expect(lb.tensor[5]).toBe(1); // left band
-    expect(lb.tensor[95]).toBe(1); // right band
-    expect(lb.tensor[30 * 96 + 48]).toBe(0); // inside the page
+    const top = await letterbox(page, 96, 64); // scale 0.16: 16 x 64 page at x 0..16
+    expect([top.resizedWidth, top.resizedHeight, top.padX, top.padY]).toEqual([16, 64, 0, 0]);
+    expect(top.tensor[30 * 96 + 8]).toBe(0); // inside the page
+    expect(top.tensor[30 * 96 + 16]).toBe(1); // right of it
+    const mid = await letterbox(page, 96, 64, 'center'); // page at x 40..56
+    expect(mid.padX).toBe(40);
+    expect([mid.tensor[30 * 96 + 5], mid.tensor[30 * 96 + 48], mid.tensor[30 * 96 + 95]]).toEqual([1, 0, 1]);
   });
 });

@@ -22,8 +22,8 @@ function expectBox(actual: { x: number; y: number; w: number; h: number }, expec
   for (const k of ['x', 'y', 'w', 'h'] as const) expect(actual[k]).toBeCloseTo(expected[k], 6);
 }
 
-// 300 x 300 page into 96 x 64: scale 64/300, page spans input x 16..80 (16 px white bands).
-// Square at page (75, 150) side 75 → input (32, 32) side 16: pixel-aligned, so the model's ink box is exact.
+// 300 x 300 page into 96 x 64: scale 64/300, page at the input's top-left (x 0..64, white beyond).
+// Square at page (75, 150) side 75 → input (16, 32) side 16: pixel-aligned, so the model's ink box is exact.
 const square = pageWithSquare(300, 300, 75, 150, 75);
 const expected = { x: 75, y: 150, w: 75, h: 75 };
 
@@ -66,10 +66,11 @@ describe('loadDetector with real onnxruntime', () => {
     expect(b).toBe(a);
   });
 
-  it('[1, N, 5+C] model with symbolic height/width takes its input size from metadata; wide page padded top and bottom', async () => {
+  it('[1, N, 5+C] model with symbolic height/width takes its input size from metadata; centred letterbox', async () => {
     const det = await loadDetector(model('square-objectness.onnx'));
     expect([det.inputWidth, det.inputHeight]).toEqual([96, 64]);
-    // 600 x 200 page: scale 0.16, page spans input y 16..48. Square at (150, 50) side 100 → input (24, 24) side 16.
+    // metadata letterbox_align "center". 600 x 200 page: scale 0.16, page spans input y 16..48.
+    // Square at (150, 50) side 100 → input (24, 24) side 16.
     const found = await det.detect(pageWithSquare(600, 200, 150, 50, 100));
     expect(found).toHaveLength(1);
     expect(found[0].className).toBe('comb_field');
@@ -77,9 +78,11 @@ describe('loadDetector with real onnxruntime', () => {
     expectBox(found[0].box, { x: 150, y: 50, w: 100, h: 100 });
   });
 
-  it('[1, N, 6] model with class names from the side file <model>.classes.json', async () => {
+  it('[1, N, 6] model with class names from the side file <model>.classes.json and its own operating threshold', async () => {
     const det = await loadDetector(model('square-suppressed.onnx'));
-    const found = await det.detect(square);
+    expect(det.defaults?.scoreThreshold).toBe(0.97); // metadata operating_threshold, above the box's 0.95
+    expect(await det.detect(square)).toEqual([]);
+    const found = await det.detect(square, { scoreThreshold: 0.5 });
     expect(found.map((d) => [d.className, d.classId])).toEqual([['signature_area', 2]]);
     expectBox(found[0].box, expected);
   });
