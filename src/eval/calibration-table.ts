@@ -1,0 +1,26 @@
+import type { CalibrateRun } from './calibration-run.js';
+import { formatRows } from './score-table.js';
+
+const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
+
+/** Per-field thresholds, before and after, with what the proposal accepts on the calibration data. */
+export function formatCalibration(run: CalibrateRun): string {
+  const p = run.proposal;
+  const header = ['field', 'type', 'fit', 'samples', 'errors', 'was', 'proposed', 'accepted', 'err|acc'];
+  const rows = p.fields.map((f) => [
+    f.field,
+    f.type,
+    f.scope,
+    String(f.samples),
+    String(f.errors),
+    run.current.get(f.field)?.toFixed(4) ?? '-',
+    f.threshold.toFixed(4),
+    pct(f.acceptedShare),
+    f.accepted > 0 ? pct(f.acceptedErrors / f.accepted, 2) : '-',
+  ]);
+  const overall =
+    `${run.documents} documents, ${p.samples} fields: thresholds accept ${pct(p.samples ? p.accepted / p.samples : 0)} ` +
+    `with ${p.accepted ? pct(p.acceptedErrors / p.accepted, 2) : '-'} wrong among accepted ` +
+    `(target ${pct(p.targetError, 2)}; measured on the calibration data itself, so check on a held-out set)`;
+  return `${formatRows(header, rows)}\n\n${overall}\n`;
+}

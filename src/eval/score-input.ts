@@ -1,0 +1,131 @@
+import { readFile } from 'node:fs/promises';
+import path from 'node:path';
+import { glob } from 'tinyglobby';
+import { z } from 'zod';
+import { readResultsLines, RESULTS_FILE } from '../batch/sinks.js';
+import { configError, oneLine } from '../errors.js';
+import { formatJsonPath } from '../schema/load.js';
+import { DocumentResult } from '../result/document.js';
+
+/** One field of a truth file written by `formglean samples generate` (DIR/truth/<stem>.json). */
+export const TruthField = z.object({
+  name: z.string(),
+  type: z.string(),
+  class: z.string(),
+  page: z.number().int().min(0),
+  value: z.union([z.string(), z.number(), z.boolean(), z.array(z.string()), z.null()]),
+  text: z.string().nullable(),
+  box: z.tuple([z.number(), z.number(), z.number(), z.number()]).nullable(),
+});
+export type TruthField = z.infer<typeof TruthField>;
+
+export const TruthDocument = z.object({
+  layout: z.string(),
+  seed: z.number(),
+  index: z.number().int(),
+  width: z.number(),
+  height: z.number(),
+  rotation: z.number(),
+  skew: z.number(),
+  fill: z.enum(['typed', 'handwriting', 'blank']),
+  fields: z.array(TruthField),
+});
+export type TruthDocument = z.infer<typeof TruthDocument>;
+
+/** A truth file with the stem of the page image it describes. */
+export interface TruthEntry {
+  stem: string;
+  file: string;
+  truth: TruthDocument;
+}
+
+export interface ResultEntry {
+  stem: string;
+  file: string;
+  result: DocumentResult;
+}
+
+async function readJson(file: string): Promise<unknown> {
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch (err) {
+    throw configError(file, `cannot read (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  try {
+    return JSON.parse(text) as unknown;
+  } catch (err) {
+    throw configError(file, `not valid JSON: ${(err as Error).message.split('\n')[0]}`);
+  }
+}
+
+function invalid(file: string, what: string, error: z.ZodError): never {
+  const issue = error.issues[0];
+  throw configError(file, `not a ${what}: ${formatJsonPath(issue.path)}: ${issue.message}`);
+}
+
+/** Stem of a file name: "scans/a-001.png" -> "a-001". */
+export function fileStem(file: string): string {
+  return path.parse(file).name;
+}
+
+async function jsonFiles(dir: string, pattern: string): Promise<string[]> {
+  const files = await glob(pattern, { cwd: dir, absolute: true, onlyFiles: true, dot: false });
+  return files.sort();
+}
+
+/**
+ * Truth files of a samples folder: DIR/truth/*.json, or DIR itself when it is the truth folder.
+ * Keyed by stem; two files with one stem are an error, since documents could not be matched.
+ */
+export async function loadTruth(dir: string): Promise<Map<string, TruthEntry>> {
+  let files = await jsonFiles(dir, 'truth/*.json');
+  if (files.length === 0) files = await jsonFiles(dir, '*.json');
+  const out = new Map<string, TruthEntry>();
+  for (const file of files) {
+    const raw = await readJson(file);
+    // A samples folder's coco.json and other side files are not truth documents.
+    if (!raw || typeof raw !== 'object' || !('fields' in raw) || !('fill' in raw)) continue;
+    const parsed = TruthDocument.safeParse(raw);
+    if (!parsed.success) invalid(file, 'truth file', parsed.error);
+    const stem = fileStem(file);
+    if (out.has(stem)) throw configError(file, `second truth file for document "${stem}"`);
+    out.set(stem, { stem, file, truth: parsed.data });
+  }
+  if (out.size === 0) throw configError(dir, 'holds no truth files (expected truth/<stem>.json from samples generate)');
+  return out;
+}
+
+/**
+ * Document results of a results folder (DIR/<document>.json as extract writes them), keyed by the stem of the
+ * source image the result names. Other JSON files there (summary, an earlier score) are skipped.
+ */
+export async function loadResults(dir: string): Promise<Map<string, ResultEntry>> {
+  const files = await jsonFiles(dir, '*.json');
+  const out = new Map<string, ResultEntry>();
+  for (const file of files) {
+    const raw = await readJson(file);
+    if (!raw || typeof raw !== 'object' || !('document' in raw) || !('fields' in raw)) continue;
+    const parsed = DocumentResult.safeParse(raw);
+    if (!parsed.success) invalid(file, 'document result', parsed.error);
+    const stem = fileStem(parsed.data.document.path);
+    if (out.has(stem)) {
+      throw configError(file, `second result for an image named "${stem}" (also ${path.basename(out.get(stem)!.file)})`);
+    }
+    out.set(stem, { stem, file, result: parsed.data });
+  }
+  return out;
+}
+
+/** Stems of documents the results folder lists as failed (results.jsonl lines with ok false). */
+export async function loadFailedStems(dir: string): Promise<Set<string>> {
+  let lines;
+  try {
+    lines = await readResultsLines(dir);
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return new Set();
+    const file = path.join(dir, RESULTS_FILE);
+    throw configError(file, `not a readable results list (${oneLine(err).replace(`${file}: `, '')})`);
+  }
+  return new Set(lines.filter((l) => !l.ok).map((l) => fileStem(l.path)));
+}
