@@ -1,6 +1,8 @@
 #!/usr/bin/env node
 import { Command, CommanderError } from 'commander';
 import { FormgleanError, oneLine } from '../errors.js';
+import { registerCalibrateCommand } from './calibrate.js';
+import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
 
 const program = new Command();
@@ -12,6 +14,8 @@ program
   .exitOverride();
 
 // Commands register themselves, one file per command.
+registerScoreCommand(program);
+registerCalibrateCommand(program);
 registerSamplesCommand(program);
 
 async function main(): Promise<void> {
