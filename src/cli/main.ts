@@ -2,8 +2,12 @@
 import { Command, CommanderError } from 'commander';
 import { FormgleanError, oneLine } from '../errors.js';
 import { registerCalibrateCommand } from './calibrate.js';
+import { registerDetectorCommand } from './detector.js';
+import { registerExtractCommand } from './extract.js';
+import { registerSchemaCommand } from './schema.js';
 import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
+import { registerReviewCommand } from './review.js';
 
 const program = new Command();
 program
@@ -14,9 +18,13 @@ program
   .exitOverride();
 
 // Commands register themselves, one file per command.
+registerExtractCommand(program);
+const schemaCommand = registerSchemaCommand(program);
 registerScoreCommand(program);
 registerCalibrateCommand(program);
+registerDetectorCommand(program);
 registerSamplesCommand(program);
+registerReviewCommand(program);
 
 async function main(): Promise<void> {
   try {

@@ -1,0 +1,27 @@
+/**
+ * formglean's library surface. Everything here runs offline; nothing is sent anywhere.
+ *
+ *   const schema = await loadSchema('schemas/clinic-intake.yaml');
+ *   const detector = await loadDetector(DEFAULT_MODEL_PATH);
+ *   const { result } = await extractDocument('scan.png', { schema, detector });
+ *   await runBatch({ inputs: ['scans/'], schema, detector, outDir: 'out' });
+ */
+export { loadSchema, parseSchemaText, referenceImagePath } from './schema/load.js';
+export type { LoadedSchema } from './schema/load.js';
+export { FormSchema, FieldSpec } from './schema/definition.js';
+export { checkSchemaAgainstClasses, checkSchemaConsistency } from './schema/consistency.js';
+export { formSchemaJsonSchema } from './schema/json-schema.js';
+export { loadDetector } from './detect/onnx-detector.js';
+export type { Detector, Detection, DetectOptions } from './detect/types.js';
+export { DEFAULT_MODEL_PATH } from './models.js';
+export { extractDocument } from './pipeline/extract-document.js';
+export type { ExtractOptions, ExtractedDocument } from './pipeline/extract-document.js';
+export { runBatch, runBatch as extractBatch } from './batch/run-batch.js';
+export type { BatchOptions, BatchReport, DocumentEvent } from './batch/run-batch.js';
+export { decodeDocument } from './input/decode.js';
+export { FIELD_TYPES, getFieldType, fieldTypeNames } from './fields/registry.js';
+export type { FieldType, Reading, Interpretation } from './fields/types.js';
+export { DocumentResult, FieldResult, FieldStatus } from './result/document.js';
+export { applyReviewQueue } from './review/apply.js';
+export { closeSharedOcrEngine } from './read/ocr-engine.js';
+export { FormgleanError } from './errors.js';

@@ -1,0 +1,72 @@
+import path from 'node:path';
+import type { Command } from 'commander';
+import { runBatch } from '../batch/run-batch.js';
+import { loadDetector } from '../detect/onnx-detector.js';
+import { configError } from '../errors.js';
+import { DEFAULT_MODEL_PATH } from '../models.js';
+import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { checkSchemaAgainstClasses } from '../schema/consistency.js';
+import { loadSchema } from '../schema/load.js';
+
+interface ExtractCliOptions {
+  schema: string;
+  model: string;
+  out: string;
+  resume?: boolean;
+  deskew: boolean;
+  threads?: string;
+  quiet?: boolean;
+}
+
+export function registerExtractCommand(program: Command): void {
+  program
+    .command('extract')
+    .description('Read scanned forms into checked JSON records, a review queue and a summary')
+    .argument('<inputs...>', 'image files (png, jpeg, tiff, webp), folders or glob patterns')
+    .requiredOption('--schema <file>', 'form schema (YAML or JSON)')
+    .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
+    .requiredOption('--out <dir>', 'results folder')
+    .option('--resume', 'keep results of documents unchanged since the last run')
+    .option('--no-deskew', 'do not correct small page skew')
+    .option('--threads <n>', 'onnxruntime intra-op threads')
+    .option('--quiet', 'print only the summary')
+    .action(async (inputs: string[], opts: ExtractCliOptions) => {
+      const threads = opts.threads === undefined ? undefined : Number(opts.threads);
+      if (threads !== undefined && (!Number.isInteger(threads) || threads < 1)) {
+        throw configError(undefined, `--threads: expected a whole number >= 1 but received "${opts.threads}"`);
+      }
+      const schema = await loadSchema(opts.schema);
+      const detector = await loadDetector(opts.model, { intraOpThreads: threads });
+      const problems = checkSchemaAgainstClasses(schema.schema, detector.classNames);
+      if (problems.length > 0) throw configError(opts.schema, problems[0]);
+      try {
+        const report = await runBatch({
+          inputs,
+          schema,
+          detector,
+          outDir: opts.out,
+          resume: opts.resume,
+          deskew: opts.deskew,
+          onDocument: (e) => {
+            if (opts.quiet) return;
+            const name = path.relative(process.cwd(), e.file) || e.file;
+            const l = e.line;
+            const what = l.ok
+              ? `${(l.counts?.accepted ?? 0)} accepted, ${(l.counts?.review ?? 0) + (l.counts?.invalid ?? 0) + (l.counts?.missing ?? 0)} to review${e.reused ? ' (unchanged, kept)' : ''} in ${l.seconds?.toFixed(1)} s`
+              : `FAILED: ${l.error}`;
+            process.stderr.write(`[${e.index + 1}/${e.total}] ${name}: ${what}\n`);
+          },
+        });
+        const s = report.summary;
+        process.stdout.write(
+          `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
+            `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
+            `${s.fields.byStatus.missing} missing; ${s.secondsPerPage ?? '-'} s/page. Results in ${opts.out}\n`,
+        );
+        if (s.documents.failed > 0) process.exitCode = 1;
+      } finally {
+        await detector.close();
+        await closeSharedOcrEngine();
+      }
+    });
+}

@@ -1,0 +1,71 @@
+import { scoreField } from '../fields/scoring.js';
+import type { Affine, Box } from '../page/geometry.js';
+import { transformBox } from '../page/geometry.js';
+import type { LocatedField } from '../locate/locate-fields.js';
+import type { FieldResult } from '../result/document.js';
+import type { FieldReadOutcome } from './read-field.js';
+
+function unionBox(boxes: readonly Box[]): Box | null {
+  if (boxes.length === 0) return null;
+  const x0 = Math.min(...boxes.map((b) => b.x));
+  const y0 = Math.min(...boxes.map((b) => b.y));
+  const x1 = Math.max(...boxes.map((b) => b.x + b.w));
+  const y1 = Math.max(...boxes.map((b) => b.y + b.h));
+  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+}
+
+const round1 = (v: number) => Math.round(v * 10) / 10;
+
+/** How a field's parts were located, taken together: every part detected, some from regions, or none found. */
+function overallSource(located: LocatedField): { source: FieldResult['source']; detectionScore: number | null } {
+  const parts = located.parts;
+  if (parts.length === 0 || parts.every((p) => p.source === 'none')) return { source: 'none', detectionScore: null };
+  if (parts.every((p) => p.source === 'detection')) {
+    const scores = parts.map((p) => p.detectionScore ?? 0);
+    return { source: 'detection', detectionScore: Math.min(...scores) };
+  }
+  return { source: 'region', detectionScore: null };
+}
+
+/** Score a read field and shape it as the result contract says, with its box in source pixels. */
+export function buildFieldResult(
+  located: LocatedField,
+  outcome: FieldReadOutcome,
+  reviewThreshold: number,
+  toSource: Affine,
+): FieldResult {
+  const { field } = located;
+  const { source, detectionScore } = overallSource(located);
+  const score = scoreField({
+    detectionScore,
+    source,
+    reading: outcome.reading,
+    interpretation: outcome.interpretation,
+    reviewThreshold,
+    required: field.required,
+  });
+  const locateReasons = located.parts.flatMap((p) => p.reasons).filter((r) => r !== 'not_found');
+  const reasons = [...new Set([...score.reasons, ...locateReasons])];
+  let status = score.status;
+  // A detection far from where the schema puts the field may be another field's: a person should look.
+  if (status === 'accepted' && locateReasons.includes('location_disagrees')) status = 'review';
+
+  const pageBox = unionBox(located.parts.flatMap((p) => (p.box ? [p.box] : [])));
+  const srcBox = pageBox ? transformBox(toSource, pageBox) : null;
+  const interp = outcome.interpretation;
+  return {
+    name: field.name,
+    type: field.type,
+    page: field.page,
+    value: interp?.value ?? null,
+    raw: outcome.reading?.kind === 'text' ? outcome.reading.text : null,
+    ...(interp?.extra ? { extra: interp.extra } : {}),
+    status,
+    confidence: score.confidence,
+    reasons,
+    box: srcBox ? { page: field.page, x: round1(srcBox.x), y: round1(srcBox.y), w: round1(srcBox.w), h: round1(srcBox.h) } : null,
+    source,
+    scores: score.scores,
+    ...(Object.keys(outcome.details).length ? { details: outcome.details } : {}),
+  };
+}

@@ -1,0 +1,75 @@
+import type { FieldType, FieldTypeContext, Interpretation, Reading } from '../fields/types.js';
+import type { Box } from '../page/geometry.js';
+import type { GrayImage } from '../page/raster.js';
+import { cropField, type Padding } from '../read/crop.js';
+import { inkCoverage, measureMark } from '../read/marks.js';
+import { readTextField } from '../read/read-text.js';
+import type { LocatedField } from '../locate/locate-fields.js';
+
+/** What reading one located field produced, before scoring. */
+export interface FieldReadOutcome {
+  reading: Reading | null;
+  interpretation: Interpretation | null;
+  /** Cleanup variants tried, mark measurements: kept in the result's details (no field values). */
+  details: Record<string, unknown>;
+}
+
+export interface ReadFieldContext {
+  page: GrayImage;
+  padding: Padding;
+  typeContext: FieldTypeContext;
+}
+
+/**
+ * Read one located field by its type's reader: OCR with cleanup variants (a second variant when the typed value fails
+ * validation), fill ratio of each printed box, or ink coverage.
+ */
+export async function readLocatedField(
+  located: LocatedField,
+  type: FieldType<any>,
+  options: unknown,
+  ctx: ReadFieldContext,
+): Promise<FieldReadOutcome> {
+  const { field } = located;
+  const padding = field.padding ?? ctx.padding;
+  if (type.reader === 'ocr') {
+    const box = located.parts[0]?.box;
+    if (!box) return { reading: null, interpretation: null, details: {} };
+    const hints = { ...(type.ocrDefaults?.(options) ?? {}), ...(field.ocr ?? {}) };
+    const read = await readTextField(ctx.page, box, {
+      padding,
+      mode: hints.mode ?? 'line',
+      allowed: hints.allowed,
+      comb: field.class === 'comb_field',
+      // The page was deskewed as a whole; crops need no skew estimate of their own.
+      skew: 0,
+      accept: (r) => {
+        const i = type.interpret(r, options, ctx.typeContext);
+        return i.outcome === 'valid' || (i.outcome === 'empty' && !field.required);
+      },
+    });
+    const interpretation = type.interpret(read.reading, options, ctx.typeContext);
+    return { reading: read.reading, interpretation, details: { attempts: read.attempts } };
+  }
+
+  const boxes = located.parts.filter((p): p is typeof p & { box: Box } => p.box !== null);
+  if (boxes.length === 0) return { reading: null, interpretation: null, details: {} };
+
+  if (type.reader === 'mark') {
+    const marks = located.parts.map((part) => {
+      if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false };
+      const m = measureMark(cropField(ctx.page, part.box, padding).image);
+      return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound };
+    });
+    const reading: Reading = { kind: 'marks', marks };
+    return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { marks } };
+  }
+
+  const coverage = inkCoverage(cropField(ctx.page, boxes[0].box, padding).image);
+  const reading: Reading = { kind: 'ink', coverage: round3(coverage) };
+  return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { coverage: reading.coverage } };
+}
+
+function round3(v: number): number {
+  return Math.round(v * 1000) / 1000;
+}
