@@ -1,4 +1,4 @@
-import { access } from 'node:fs/promises';
+import { readdir } from 'node:fs/promises';
 import path from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { Box } from '../page/geometry.js';
@@ -6,7 +6,7 @@ import { clampBox, roundBox } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { cropGray, grayToPng, sharpFromGray } from '../page/raster.js';
 import type { DocumentResult, ResultBox } from '../result/document.js';
-import { contextCropName, cropName, reviewDir } from './layout.js';
+import { contextCropName, CROPS_DIR, cropName, reviewDir } from './layout.js';
 import { isPending } from './pending.js';
 import { reviewRowId } from './row-id.js';
 
@@ -76,18 +76,12 @@ export async function writeReviewCrops(outDir: string, result: DocumentResult, p
   }
 }
 
-/** The crop files of a row as the queue lists them (relative to queue.csv), '' when absent. */
-export async function existingCrops(outDir: string, ids: readonly string[]): Promise<{ crop: string; context: string }> {
-  const dir = reviewDir(outDir);
-  const exists = (rel: string) =>
-    access(path.join(dir, rel)).then(
-      () => true,
-      () => false,
-    );
-  for (const id of ids) {
-    if (await exists(cropName(id))) {
-      return { crop: cropName(id), context: (await exists(contextCropName(id))) ? contextCropName(id) : '' };
-    }
+/** Names of the crop files present, relative to the review folder (as the queue lists them). */
+export async function listCrops(outDir: string): Promise<Set<string>> {
+  try {
+    return new Set((await readdir(path.join(reviewDir(outDir), CROPS_DIR))).map((n) => `${CROPS_DIR}/${n}`));
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return new Set();
+    throw err;
   }
-  return { crop: '', context: '' };
 }

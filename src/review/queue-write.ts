@@ -4,9 +4,9 @@ import { stringify } from 'csv-stringify/sync';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { DocumentResult } from '../result/document.js';
 import { confidenceToCell, valueToCell } from './cell-value.js';
-import { existingCrops } from './crops.js';
+import { listCrops } from './crops.js';
 import { guardCell } from './formula-guard.js';
-import { queuePath, reviewDir } from './layout.js';
+import { contextCropName, cropName, queuePath, reviewDir } from './layout.js';
 import { isPending } from './pending.js';
 import type { QueueRow } from './queue-columns.js';
 import { QUEUE_COLUMNS, REASON_SEPARATOR, REVIEWER_COLUMNS } from './queue-columns.js';
@@ -91,15 +91,11 @@ function typedAnswers(file: string, bytes: Buffer): Map<string, Pick<QueueRow, '
  */
 export async function writeReviewQueue(outDir: string, results: DocumentResult[]): Promise<void> {
   const file = queuePath(outDir);
-  const cropCache = new Map<string, { crop: string; context: string }>();
-  for (const doc of results) {
-    for (const f of doc.fields) {
-      if (!isPending(f.status)) continue;
-      const plain = reviewRowId(doc.document.sha256, f.name);
-      if (!cropCache.has(plain)) cropCache.set(plain, await existingCrops(outDir, [plain]));
-    }
-  }
-  const rows = buildQueueRows(results, (_id, plain) => cropCache.get(plain) ?? { crop: '', context: '' });
+  const present = await listCrops(outDir);
+  const rows = buildQueueRows(results, (_id, plain) => ({
+    crop: present.has(cropName(plain)) ? cropName(plain) : '',
+    context: present.has(contextCropName(plain)) ? contextCropName(plain) : '',
+  }));
 
   let previous: Buffer | undefined;
   try {

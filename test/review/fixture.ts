@@ -21,11 +21,11 @@ export function field(name: string, type: string, value: FieldResult['value'], s
 }
 
 /** A document result with the given fields; the content hash derives from the id so each document differs. */
-export function documentResult(id: string, fields: FieldResult[], schemaPath = '/nonexistent/schema.yaml'): DocumentResult {
+export function documentResult(id: string, fields: FieldResult[], schemaPath = '/nonexistent/schema.yaml', schemaSha256 = 'a'.repeat(64)): DocumentResult {
   return {
     format: RESULT_FORMAT,
     document: { id, path: `/scans/${id}.png`, sha256: createHash('sha256').update(`scan ${id}`).digest('hex') },
-    schema: { name: 'clinic-intake', version: '1', path: schemaPath, sha256: 'a'.repeat(64) },
+    schema: { name: 'clinic-intake', version: '1', path: schemaPath, sha256: schemaSha256 },
     model: { id: 'form-elements', path: 'models/form-elements.onnx', sha256: 'b'.repeat(64) },
     createdAt: '2026-03-02T10:00:00.000Z',
     pages: [{ index: 0, width: 800, height: 600, rotation: 0, skew: 0, alignment: null, detections: fields.length }],
