@@ -62,7 +62,11 @@ export async function letterbox(
 ): Promise<LetterboxedPage> {
   const g = letterboxGeometry(page.width, page.height, inputWidth, inputHeight, align);
   const { data, info } = await sharpFromGray(page)
-    .resize(g.resizedWidth, g.resizedHeight, { fit: 'fill' })
+    // Linear kernel: libvips box-shrinks by the integer part of the factor first, so large reductions stay
+    // anti-aliased; on a 1700 x 2200 page into 640 px it took ~6 ms against ~17 ms for the default lanczos3
+    // (one libvips thread, measured with sharp on this machine). Training mixes box, bilinear, Lanczos and Hamming
+    // filters (training/pages.py), so the model does not depend on this choice.
+    .resize(g.resizedWidth, g.resizedHeight, { fit: 'fill', kernel: 'linear' })
     .raw()
     .toBuffer({ resolveWithObject: true });
   const tensor = new Float32Array(inputWidth * inputHeight).fill(1);
