@@ -163,3 +163,31 @@ export function proposeThresholds(samples: readonly CalibrationSample[], options
   fields.sort((a, b) => (a.field < b.field ? -1 : a.field > b.field ? 1 : 0));
   return { targetError, fields, accepted, acceptedErrors, samples: samples.length };
 }
+
+export interface ThresholdOutcome {
+  samples: number;
+  accepted: number;
+  acceptedErrors: number;
+  /** Share of all samples accepted without review. */
+  acceptedShare: number | null;
+  errorAmongAccepted: number | null;
+}
+
+/**
+ * What a set of review thresholds does to other labeled samples (a held-out set): a sample is accepted when a
+ * threshold decides it and its confidence reaches its field's threshold.
+ */
+export function evaluateThresholds(
+  samples: readonly CalibrationSample[],
+  thresholdOf: (field: string) => number,
+): ThresholdOutcome {
+  const accepted = samples.filter((s) => s.decidable && s.confidence >= thresholdOf(s.field));
+  const acceptedErrors = accepted.filter((s) => !s.correct).length;
+  return {
+    samples: samples.length,
+    accepted: accepted.length,
+    acceptedErrors,
+    acceptedShare: samples.length > 0 ? accepted.length / samples.length : null,
+    errorAmongAccepted: accepted.length > 0 ? acceptedErrors / accepted.length : null,
+  };
+}

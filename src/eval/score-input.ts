@@ -16,6 +16,8 @@ export const TruthField = z.object({
   value: z.union([z.string(), z.number(), z.boolean(), z.array(z.string()), z.null()]),
   text: z.string().nullable(),
   box: z.tuple([z.number(), z.number(), z.number(), z.number()]).nullable(),
+  /** A choice group's printed boxes, each with whether it was ticked. */
+  parts: z.array(z.object({ key: z.string(), checked: z.boolean() })).optional(),
 });
 export type TruthField = z.infer<typeof TruthField>;
 
@@ -69,18 +71,19 @@ export function fileStem(file: string): string {
   return path.parse(file).name;
 }
 
-async function jsonFiles(dir: string, pattern: string): Promise<string[]> {
+async function jsonFiles(dir: string, pattern: string[]): Promise<string[]> {
   const files = await glob(pattern, { cwd: dir, absolute: true, onlyFiles: true, dot: false });
   return files.sort();
 }
 
 /**
- * Truth files of a samples folder: DIR/truth/*.json, or DIR itself when it is the truth folder.
+ * Truth files of a samples folder: DIR/truth/*.json, or those of several sample sets in subfolders
+ * (DIR/<set>/truth/*.json), or DIR itself when it is the truth folder.
  * Keyed by stem; two files with one stem are an error, since documents could not be matched.
  */
 export async function loadTruth(dir: string): Promise<Map<string, TruthEntry>> {
-  let files = await jsonFiles(dir, 'truth/*.json');
-  if (files.length === 0) files = await jsonFiles(dir, '*.json');
+  let files = await jsonFiles(dir, ['truth/*.json', '*/truth/*.json']);
+  if (files.length === 0) files = await jsonFiles(dir, ['*.json']);
   const out = new Map<string, TruthEntry>();
   for (const file of files) {
     const raw = await readJson(file);
@@ -97,11 +100,12 @@ export async function loadTruth(dir: string): Promise<Map<string, TruthEntry>> {
 }
 
 /**
- * Document results of a results folder (DIR/<document>.json as extract writes them), keyed by the stem of the
- * source image the result names. Other JSON files there (summary, an earlier score) are skipped.
+ * Document results of a results folder (DIR/<document>.json as extract writes them, or DIR/<batch>/<document>.json
+ * for several batches, e.g. one per schema), keyed by the stem of the source image the result names. Other JSON
+ * files there (summary, an earlier score) are skipped.
  */
 export async function loadResults(dir: string): Promise<Map<string, ResultEntry>> {
-  const files = await jsonFiles(dir, '*.json');
+  const files = await jsonFiles(dir, ['*.json', '*/*.json']);
   const out = new Map<string, ResultEntry>();
   for (const file of files) {
     const raw = await readJson(file);
@@ -117,15 +121,17 @@ export async function loadResults(dir: string): Promise<Map<string, ResultEntry>
   return out;
 }
 
-/** Stems of documents the results folder lists as failed (results.jsonl lines with ok false). */
+/** Stems of documents the results folder (and its batch subfolders) list as failed: results.jsonl lines with ok false. */
 export async function loadFailedStems(dir: string): Promise<Set<string>> {
-  let lines;
-  try {
-    lines = await readResultsLines(dir);
-  } catch (err) {
-    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return new Set();
-    const file = path.join(dir, RESULTS_FILE);
-    throw configError(file, `not a readable results list (${oneLine(err).replace(`${file}: `, '')})`);
+  const out = new Set<string>();
+  for (const file of await jsonFiles(dir, [RESULTS_FILE, `*/${RESULTS_FILE}`])) {
+    let lines;
+    try {
+      lines = await readResultsLines(path.dirname(file));
+    } catch (err) {
+      throw configError(file, `not a readable results list (${oneLine(err).replace(`${file}: `, '')})`);
+    }
+    for (const l of lines) if (!l.ok) out.add(fileStem(l.path));
   }
-  return new Set(lines.filter((l) => !l.ok).map((l) => fileStem(l.path)));
+  return out;
 }

@@ -3,7 +3,7 @@ import type { Metrics, ScoreReport } from './score.js';
 const pct = (v: number | null, digits = 1): string => (v === null ? '-' : `${(v * 100).toFixed(digits)}%`);
 const num = (v: number | null, digits = 4): string => (v === null ? '-' : v.toFixed(digits));
 
-const COLUMNS = ['fields', 'exact', 'CER', 'raw CER', 'located', 'straight', 'err|acc', 'caught', 'slipped', 'ECE'];
+const COLUMNS = ['fields', 'exact', 'CER', 'raw CER', 'marks', 'located', 'straight', 'err|acc', 'caught', 'slipped', 'ECE'];
 
 function row(label: string, m: Metrics): string[] {
   return [
@@ -12,6 +12,7 @@ function row(label: string, m: Metrics): string[] {
     pct(m.exactMatch, 2),
     pct(m.cer, 2),
     pct(m.rawCer, 2),
+    pct(m.markAccuracy, 2),
     pct(m.locationRecall),
     pct(m.straightThrough),
     pct(m.errorAmongAccepted, 2),
@@ -57,7 +58,8 @@ export function formatScore(report: ScoreReport, options: { perField?: boolean }
   ];
   if (options.perField) parts.push(section('layout/field', report.byField));
   parts.push(
-    'exact: normalized value matches; CER: character error rate (edits / true length); located: box IoU >= 0.5; ' +
+    'exact: normalized value matches; CER: character error rate (edits / true length); marks: tick decisions ' +
+      '(checkboxes, boxes of choice groups) read right; located: box IoU >= 0.5; ' +
       'straight: accepted without review; err|acc: wrong among accepted; caught/slipped: wrong values sent to review / ' +
       `accepted; ECE: expected calibration error, ${report.bins} bins (Guo et al. 2017)`,
   );

@@ -21,7 +21,9 @@ export interface ScoredField {
   correct: boolean;
   /** Accepted without review: status "accepted". Everything else waits for (or went through) a person. */
   accepted: boolean;
-  /** Accepted or held back by the review threshold alone (status accepted or review). */
+  /** A review threshold decides this field: accepted, or in review without an ambiguity reason (an ambiguous
+   *  mark or date format goes to review whatever its confidence, as src/fields/scoring.ts rules; invalid and
+   *  missing values too). */
   decidable: boolean;
   /** Edits from the normalized value to the true one, for text-valued fields read by OCR. */
   valueEdits: EditCount | null;
@@ -29,6 +31,18 @@ export interface ScoredField {
   rawEdits: EditCount | null;
   /** IoU >= 0.5 with the truth box on the same page; null when the truth has no box. */
   located: boolean | null;
+  /** Tick decisions: one per checkbox, one per printed box of a choice group; null for other fields. */
+  marks: { decisions: number; correct: number } | null;
+}
+
+/** A checkbox is one tick decision; a choice group is one per printed box (ticked in truth vs in the value). */
+function markDecisions(t: TruthField, value: FieldResult['value']): ScoredField['marks'] {
+  if (t.parts && t.parts.length > 0) {
+    const ticked = (key: string): boolean => (Array.isArray(value) ? value.includes(key) : value === key);
+    return { decisions: t.parts.length, correct: t.parts.filter((p) => ticked(p.key) === p.checked).length };
+  }
+  if (t.type === 'checkbox') return { decisions: 1, correct: value === t.value ? 1 : 0 };
+  return null;
 }
 
 function scoreField(doc: string, truth: TruthDocument, t: TruthField, r: FieldResult | undefined): ScoredField {
@@ -54,10 +68,11 @@ function scoreField(doc: string, truth: TruthDocument, t: TruthField, r: FieldRe
     confidence: r?.confidence ?? 0,
     correct,
     accepted: status === 'accepted',
-    decidable: status === 'accepted' || status === 'review',
+    decidable: status === 'accepted' || (status === 'review' && !r?.reasons.some((c) => c.startsWith('ambiguous_'))),
     valueEdits,
     rawEdits,
     located,
+    marks: markDecisions(t, r?.value ?? null),
   };
 }
 
@@ -88,6 +103,9 @@ export interface Metrics {
   cer: number | null;
   /** Character error rate of raw OCR text against the text as written, pooled. */
   rawCer: number | null;
+  /** Tick decisions (checkboxes, boxes of choice groups) and the share read right. */
+  marks: number;
+  markAccuracy: number | null;
   withBox: number;
   located: number;
   locationRecall: number | null;
@@ -119,12 +137,16 @@ export function summarizeFields(items: readonly ScoredField[], bins: number): Me
   const errors = items.length - correct;
   const valueEdits = items.flatMap((i) => (i.valueEdits ? [i.valueEdits] : []));
   const rawEdits = items.flatMap((i) => (i.rawEdits ? [i.rawEdits] : []));
+  const marks = items.reduce((n, i) => n + (i.marks?.decisions ?? 0), 0);
+  const marksRight = items.reduce((n, i) => n + (i.marks?.correct ?? 0), 0);
   return {
     fields: items.length,
     correct,
     exactMatch: ratio(correct, items.length),
     cer: pooledErrorRate(valueEdits),
     rawCer: pooledErrorRate(rawEdits),
+    marks,
+    markAccuracy: ratio(marksRight, marks),
     withBox,
     located,
     locationRecall: ratio(located, withBox),

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { applyIsotonic, fitIsotonic, poolAdjacentViolators } from '../../src/eval/calibration.js';
-import { proposeThresholds, type CalibrationSample } from '../../src/eval/calibration-thresholds.js';
+import { evaluateOnHoldout } from '../../src/eval/calibration-holdout.js';
+import { evaluateThresholds, proposeThresholds, type CalibrationSample } from '../../src/eval/calibration-thresholds.js';
 
 describe('pool-adjacent-violators', () => {
   it('solves the textbook exercise (23, 27, 25, 28)', () => {
@@ -112,5 +113,37 @@ describe('review thresholds for a target error', () => {
   it('proposes 1 for a field no level of which meets the target', () => {
     const p = proposeThresholds(samples('c', [[0.5, false], [0.9, false]]), { targetError: 0.005, minSamples: 1 });
     expect(p.fields[0]).toMatchObject({ threshold: 1, accepted: 0 });
+  });
+});
+
+describe('thresholds on held-out samples', () => {
+  it('counts what the thresholds accept and how many of those are wrong (by hand)', () => {
+    // Thresholds a 0.7, b 0.3. Field A: 0.7 .. 1 accepted (6, all right). Field B: all 5 reach 0.3, one wrong
+    // (0.95). A non-decidable sample at 0.99 stays out. Accepted 11 of 16, 1 wrong.
+    const held = [...fieldA, ...fieldB, ...samples('a', [[0.99, false]], false)];
+    const o = evaluateThresholds(held, (f) => (f === 'a' ? 0.7 : 0.3));
+    expect(o).toEqual({ samples: 16, accepted: 11, acceptedErrors: 1, acceptedShare: 11 / 16, errorAmongAccepted: 1 / 11 });
+  });
+});
+
+describe('fit on one half, measure on the other', () => {
+  it('applies the fitted thresholds and maps to held-out samples (hand computation)', () => {
+    const held = samples('a', [
+      [0.65, false],
+      [0.75, true],
+      [0.85, false],
+      [0.9, true],
+    ]);
+    const h = evaluateOnHoldout(fieldA, held, { targetError: 0.1, minSamples: 1, bins: 15, fallbackThreshold: () => 0.8 });
+    // Fitted threshold for a: 0.7 (see above) accepts 0.75, 0.85, 0.9: 3 accepted, 1 wrong. The schema's 0.8
+    // accepts 0.85 and 0.9: 2 accepted, 1 wrong.
+    expect(h.after).toMatchObject({ accepted: 3, acceptedErrors: 1 });
+    expect(h.before).toMatchObject({ accepted: 2, acceptedErrors: 1 });
+    // ECE, M = 15 (Guo et al. 2017), by hand. Stated: 0.65 -> bin 10 (gap 0.65), 0.75 -> bin 12 (0.25),
+    // 0.85 -> bin 13 (0.85), 0.9 -> bin 14 (0.1); each weight 1/4: (0.65 + 0.25 + 0.85 + 0.1) / 4 = 0.4625.
+    expect(h.eceRaw).toBeCloseTo(0.4625, 12);
+    // Through a's map: 0.65 lies between levels and takes the lower one, 0.5 (bin 8, gap 0.5, weight 1/4);
+    // the other three map to 1 (bin 15: accuracy 2/3, gap 1/3, weight 3/4). ECE = 0.125 + 0.25 = 0.375.
+    expect(h.eceCalibrated).toBeCloseTo(0.375, 12);
   });
 });

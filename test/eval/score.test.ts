@@ -7,6 +7,7 @@ import { registerScoreCommand } from '../../src/cli/score.js';
 import { FormgleanError } from '../../src/errors.js';
 import { runScore } from '../../src/eval/score-run.js';
 import { formatScore } from '../../src/eval/score-table.js';
+import { scoreDocument, summarizeFields } from '../../src/eval/score.js';
 import { documentResult, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
 
 // A worked example, every figure computed by hand below. Invented data: a clinic-intake form read twice;
@@ -67,6 +68,7 @@ describe('score: worked example with real files', () => {
     expect(m.ece).toBeCloseTo(0.15 + 0.01 + 0.4 / 6, 12);
     // Checkbox accuracy: a-001 ticked and read ticked; a-002 unticked but not read = 1 / 2.
     expect(report.byType.checkbox.exactMatch).toBe(0.5);
+    expect([m.marks, m.markAccuracy]).toEqual([2, 0.5]);
     expect(report.byFillType['typed/checkbox'].exactMatch).toBe(1);
     expect(report.byFill.handwriting.fields).toBe(2);
     expect(report.byField['clinic-intake/phone']).toMatchObject({ type: 'phone', fields: 1, caughtByReview: 1 });
@@ -90,6 +92,33 @@ describe('score: worked example with real files', () => {
     expect(err).toBeInstanceOf(Error);
     expect((err as Error).message).toContain(bad);
     expect((err as Error).message).not.toContain('\n');
+  });
+});
+
+describe('tick decisions', () => {
+  it('counts one per checkbox and one per printed box of a choice group (hand computation)', () => {
+    const t = truthDoc('marina-slip', 'typed', [
+      { ...truthField('boat_type', 'choice', 'sail', null, [10, 10, 300, 20]), parts: [
+        { key: 'power', checked: false }, { key: 'sail', checked: true }, { key: 'kayak', checked: false },
+      ] },
+      { ...truthField('services', 'choice', ['water', 'power'], null, [10, 50, 300, 20]), parts: [
+        { key: 'water', checked: true }, { key: 'power', checked: true }, { key: 'wifi', checked: false },
+      ] },
+      truthField('insured', 'checkbox', false, null, [10, 90, 20, 20]),
+    ]);
+    const r = documentResult('/scans/m-001.png', 'marina-slip', [
+      resultField('boat_type', 'choice', 'power', null, 'accepted', 0.9, null), // power wrongly on, sail missed
+      resultField('services', 'choice', ['water', 'wifi'], null, 'review', 0.5, null), // power missed, wifi wrong
+      resultField('insured', 'checkbox', false, null, 'accepted', 0.99, null),
+    ]);
+    const { fields } = scoreDocument('m-001', t, r);
+    // By hand: boat_type 1 of 3 right (kayak); services 1 of 3 (water); insured 1 of 1. Total 3 of 7.
+    expect(fields.map((f) => f.marks)).toEqual([
+      { decisions: 3, correct: 1 },
+      { decisions: 3, correct: 1 },
+      { decisions: 1, correct: 1 },
+    ]);
+    expect(summarizeFields(fields, 15).markAccuracy).toBeCloseTo(3 / 7, 12);
   });
 });
 
