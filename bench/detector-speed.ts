@@ -19,13 +19,14 @@ import { letterbox } from '../src/detect/letterbox.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { percentile } from '../src/eval/percentile.js';
 import { decodeDocument } from '../src/input/decode.js';
+import { DEFAULT_MODEL_PATH } from '../src/models.js';
 import { generateSamples } from '../src/synth/generate.js';
 import type { LayoutName } from '../src/synth/layouts.js';
 import type { DegradeLevel } from '../src/synth/scan-params.js';
 
 const { values: args } = parseArgs({
   options: {
-    model: { type: 'string', default: 'models/form-elements.onnx' },
+    model: { type: 'string', default: DEFAULT_MODEL_PATH },
     data: { type: 'string' },
     layout: { type: 'string', default: 'random' },
     count: { type: 'string', default: '30' },

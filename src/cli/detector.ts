@@ -7,6 +7,7 @@ import { evaluateDetector } from '../eval/detection-run.js';
 import { formatDetectorEval } from '../eval/detection-table.js';
 import { prPlotPng } from '../eval/pr-plot.js';
 import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
+import { DEFAULT_MODEL_PATH } from '../models.js';
 
 interface EvalOptions {
   model: string;
@@ -22,7 +23,7 @@ export function registerDetectorCommand(program: Command): void {
   detector
     .command('eval')
     .description('Score a detector on a labeled COCO set: per-class AP@0.5, AP@0.5:0.95, precision and recall')
-    .requiredOption('--model <file>', 'ONNX detector')
+    .option('--model <file>', 'ONNX detector (default: the shipped form-element detector)', DEFAULT_MODEL_PATH)
     .requiredOption('--data <file>', 'COCO JSON (image paths relative to it), e.g. from samples generate')
     .option('--out <dir>', 'where to write detector-eval.json and detector-pr.png (default: detector-eval/ beside the data)')
     .option('--score-threshold <t>', 'operating threshold for precision/recall (default: the model\'s own, else 0.25)')
