@@ -1,7 +1,8 @@
 import type { Box } from '../page/geometry.js';
 import { DETECTOR_CLASSES, type Layout } from './layout-model.js';
 import type { ScanParams } from './scan-params.js';
-import { boxTuple, scanBox } from './truth.js';
+import { boxTuple } from './box-tuple.js';
+import { scanBox } from './homography.js';
 
 /** COCO object-detection format (cocodataset.org, "Data format": images, annotations with bbox [x,y,width,height]
  *  in pixels from the top-left corner, categories). */

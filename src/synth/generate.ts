@@ -43,7 +43,7 @@ export async function generateSamples(o: GenerateOptions, onPage?: (index: numbe
   const coco = new CocoBuilder();
   const ext = PAGE_EXTENSIONS[o.format];
   for (let index = 0; index < o.count; index++) {
-    const seedOfPage = pageSeed(o.seed, index);
+    const seedOfPage = pageSeed(o.seed, index, o.layout);
     const rng = new Rng(seedOfPage);
     const layout = layoutFor(o.layout, rng.fork('layout'), o.styles);
     const fill: FillMode = o.fill === 'mixed' ? (rng.fork('mode').chance(0.5) ? 'typed' : 'handwriting') : o.fill;

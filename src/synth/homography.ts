@@ -1,4 +1,5 @@
 import type { Box } from '../page/geometry.js';
+import { clampBox, roundBox } from '../page/geometry.js';
 
 /** 3x3 projective transform, row-major: [x', y', w'] = H [x, y, 1]; points are (x'/w', y'/w'). */
 export type Homography = readonly [number, number, number, number, number, number, number, number, number];
@@ -51,4 +52,10 @@ export function transformBoxH(h: Homography, b: Box): Box {
   const x = Math.min(...xs);
   const y = Math.min(...ys);
   return { x, y, w: Math.max(...xs) - x, h: Math.max(...ys) - y };
+}
+
+/** A reference-page box as it lies on the scan: corners transformed, axis-aligned bounds, rounded outward to whole
+ *  pixels, clamped to the page. */
+export function scanBox(h: Homography, b: Box, width: number, height: number): Box {
+  return clampBox(roundBox(transformBoxH(h, b)), width, height);
 }

@@ -84,6 +84,8 @@ export class LayoutBuilder {
   readonly fields: LayoutField[] = [];
   readonly m: Metrics;
   y: number;
+  /** Gray of section bars: one per form. */
+  private readonly barGray: number;
 
   constructor(
     readonly family: StyleFamily,
@@ -93,6 +95,7 @@ export class LayoutBuilder {
   ) {
     this.m = drawMetrics(rng, family);
     this.y = this.m.margin;
+    this.barGray = rng.int(40, 110);
   }
 
   get left(): number {
@@ -134,7 +137,7 @@ export class LayoutBuilder {
     this.y += 14;
     if (this.family.sections === 'bar') {
       const h = size + 16;
-      this.printed.push({ kind: 'rect', box: { x: this.left, y: this.y, w: this.usableWidth, h }, stroke: 0, fillGray: this.rng.int(40, 110) });
+      this.printed.push({ kind: 'rect', box: { x: this.left, y: this.y, w: this.usableWidth, h }, stroke: 0, fillGray: this.barGray });
       this.text(this.left + 12, this.y + h - 11, size, text.toUpperCase(), this.family.labelFont, { bold: true, gray: 255 });
       this.y += h + 16;
     } else if (this.family.sections === 'rule') {
@@ -206,8 +209,10 @@ export class LayoutBuilder {
     return Math.max(0, ...items.map((it, i) => this.itemHeight(it, this.placementFor(it, widths[i]))));
   }
 
+  /** Widths of a row's items: spans of the usable width, gaps shared so the row ends at the right margin. */
   private itemWidths(items: ItemSpec[]): number[] {
-    return items.map((it) => r(it.span * this.usableWidth - (items.length > 1 ? this.m.gap : 0)));
+    const gaps = this.m.gap * (items.length - 1);
+    return items.map((it) => r(it.span * (this.usableWidth - gaps)));
   }
 
   /** A row of fields; returns false (placing nothing) when it does not fit on the page. */
@@ -217,7 +222,7 @@ export class LayoutBuilder {
     const widths = this.itemWidths(items);
     let x = this.left;
     items.forEach((item, i) => {
-      const w = i === items.length - 1 && this.family.labels === 'cell' ? this.width - this.left - x : widths[i];
+      const w = i === items.length - 1 ? this.width - this.left - x : widths[i];
       this.placeItem(item, x, this.y, w, rowH, this.placementFor(item, w));
       x += w + this.m.gap;
     });

@@ -111,7 +111,8 @@ function writtenText(x: number, baseline: number, size: number, text: string, pe
     prev = off;
     return `<tspan dy="${n(dy)}">${i > 0 ? ' ' : ''}${escapeXml(w)}</tspan>`;
   });
-  return textEl(x, baseline, size, pen.font, spans.join(''), t + a + fill);
+  // xml:space keeps the spaces that open each word's span (SVG collapses them otherwise).
+  return textEl(x, baseline, size, pen.font, spans.join(''), `${t}${a}${fill} xml:space="preserve"`);
 }
 
 /** Break text into lines that fit `width` at `size`. */
@@ -178,7 +179,7 @@ function fillSvg(fill: FieldFill, pen: Pen, rng: Rng): string {
       .map((l, i) => writtenText(wb.x + 12, wb.y + lineH * (i + 0.78) + jitterY(), size, l, pen, rng))
       .join('');
   }
-  const size = Math.min(wb.h * pen.size, 44);
+  const size = Math.min(wb.h * pen.size, pen.handwriting ? 52 : 38);
   const indent = rng.range(4, 0.08 * wb.w + 5);
   const fitted = fitFontSize(fill.text, pen.font, size, wb.w - indent - 6);
   return writtenText(wb.x + indent, wb.y + wb.h * 0.5 + fitted * 0.36 + jitterY(), fitted, fill.text, pen, rng);

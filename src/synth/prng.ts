@@ -74,10 +74,11 @@ export class Rng {
   }
 }
 
-/** Seed for page `index` of a run started at `seed`: pages are independent, so page 7 of seed 1 is the same
- *  whatever the count. */
-export function pageSeed(seed: number, index: number): number {
+/** Seed for page `index` of a run started at `seed` for one layout: pages are independent, so page 7 of seed 1 is
+ *  the same whatever the count, and two layouts with the same seed get different fills. */
+export function pageSeed(seed: number, index: number, layout = ''): number {
   let h = (seed >>> 0) ^ 0x85ebca6b;
+  for (let i = 0; i < layout.length; i++) h = Math.imul(h ^ layout.charCodeAt(i), 0x01000193);
   h = Math.imul(h ^ (index + 1), 0xc2b2ae35);
   h ^= h >>> 16;
   h = Math.imul(h, 0x27d4eb2f);

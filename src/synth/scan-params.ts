@@ -31,6 +31,8 @@ export interface ScanOptions {
   dpi?: number;
   /** Share of pages fed upside down. */
   upsideDownRate: number;
+  /** false: no sensor noise or specks (small files for demo scans); default true. */
+  noise?: boolean;
 }
 
 /** Ranges per level. Heavy follows the brief for training (rotation ±3°, JPEG 30–90, 150–300 DPI); light is an
@@ -75,8 +77,8 @@ export function drawScanParams(rng: Rng, refWidth: number, refHeight: number, o:
     rotation,
     skew: Math.round(skew * 1000) / 1000,
     blurSigma: rng.range(R.blur[0], R.blur[1]),
-    noiseSigma: rng.range(R.noise[0], R.noise[1]),
-    saltPepper: rng.range(R.sp[0], R.sp[1]),
+    noiseSigma: o.noise === false ? 0 : rng.range(R.noise[0], R.noise[1]),
+    saltPepper: o.noise === false ? 0 : rng.range(R.sp[0], R.sp[1]),
     shading: [shade(), shade(), shade(), shade()],
     paper: rng.int(o.level === 'heavy' ? 215 : 238, 255),
     jpegQuality: rng.chance(R.jpegRate) ? rng.int(R.jpeg[0], R.jpeg[1]) : null,

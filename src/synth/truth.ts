@@ -1,8 +1,7 @@
-import type { Box } from '../page/geometry.js';
-import { clampBox, roundBox } from '../page/geometry.js';
+import { boxTuple, unionBox } from './box-tuple.js';
 import type { MarkKind } from './checkbox-mark.js';
 import type { FieldFill, FieldValue, FillMode, Pen } from './fill.js';
-import { transformBoxH, type Homography } from './homography.js';
+import { scanBox } from './homography.js';
 import type { DetectorClass, FieldTypeName, Layout } from './layout-model.js';
 import { writtenLines } from './page-svg.js';
 import type { ScanParams } from './scan-params.js';
@@ -45,18 +44,6 @@ export interface PageTruth {
   fields: TruthField[];
 }
 
-/** A reference-page box as it lies on the scan: corners transformed, axis-aligned bounds, clamped, whole pixels. */
-export function scanBox(h: Homography, b: Box, width: number, height: number): Box {
-  return clampBox(roundBox(transformBoxH(h, b)), width, height);
-}
-
-export const boxTuple = (b: Box): [number, number, number, number] => [b.x, b.y, b.w, b.h];
-
-function unionBox(boxes: Box[]): Box {
-  const x = Math.min(...boxes.map((b) => b.x));
-  const y = Math.min(...boxes.map((b) => b.y));
-  return { x, y, w: Math.max(...boxes.map((b) => b.x + b.w)) - x, h: Math.max(...boxes.map((b) => b.y + b.h)) - y };
-}
 
 function truthField(f: FieldFill, pen: Pen | null, scan: ScanParams): TruthField {
   const field = f.field;

@@ -1,0 +1,18 @@
+import path from 'node:path';
+import { writeFileAtomic } from '../io/atomic-write.js';
+import { grayToPng } from '../page/raster.js';
+import { demoLayout, type DemoLayoutName } from './layouts.js';
+import { renderBlank } from './render-page.js';
+import { schemaFromLayout } from './schema-from-layout.js';
+import { schemaYaml } from './schema-yaml.js';
+
+/** Write schemas/<layout>.yaml and the blank reference schemas/<layout>.blank.png for a demo form. */
+export async function writeDemoSchema(name: DemoLayoutName, dir: string): Promise<{ schema: string; blank: string }> {
+  const layout = demoLayout(name);
+  const schema = path.join(dir, `${name}.yaml`);
+  const blank = path.join(dir, `${name}.blank.png`);
+  const header = `# ${layout.title}: invented demo form. Written by \`npm run samples:make\` from src/synth/demo/${name}.ts.\n`;
+  await writeFileAtomic(schema, header + schemaYaml(schemaFromLayout(layout)));
+  await writeFileAtomic(blank, await grayToPng(await renderBlank(layout)));
+  return { schema, blank };
+}

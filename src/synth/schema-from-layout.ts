@@ -1,0 +1,47 @@
+import { boxTuple, unionBox } from './box-tuple.js';
+import type { Layout, LayoutField } from './layout-model.js';
+
+/** A field entry of the form-schema file, as plain data (validated by FormSchema where it is used). */
+export interface SchemaFieldValue {
+  name: string;
+  label: string;
+  type: string;
+  class: string;
+  page: number;
+  region: [number, number, number, number];
+  required?: boolean;
+  options?: Record<string, unknown>;
+}
+
+export interface SchemaValue {
+  $schema: string;
+  form: { name: string; version: string; description: string };
+  pages: { width: number; height: number; image: string }[];
+  fields: SchemaFieldValue[];
+}
+
+
+function fieldValue(f: LayoutField): SchemaFieldValue {
+  const region = boxTuple(unionBox(f.slots.map((s) => s.box)));
+  const out: SchemaFieldValue = { name: f.name, label: f.label.replace(/\s*[*:]$/, ''), type: f.type, class: f.slots[0].class, page: 0, region };
+  if (f.required) out.required = true;
+  const options =
+    f.type === 'choice'
+      ? { multiple: Boolean(f.options.multiple), choices: f.slots.map((s) => ({ value: s.key, region: boxTuple(s.box) })) }
+      : f.options;
+  if (Object.keys(options).length > 0) out.options = options;
+  return out;
+}
+
+/**
+ * The form-schema value for a layout: the reference page, and for every field its type, options, detector class
+ * and region on the reference page (a choice group's region bounds its boxes; each box is listed with its value).
+ */
+export function schemaFromLayout(layout: Layout, description = `${layout.title} (invented demo form)`): SchemaValue {
+  return {
+    $schema: './form-schema.json',
+    form: { name: layout.name, version: '1', description },
+    pages: [{ width: layout.width, height: layout.height, image: `${layout.name}.blank.png` }],
+    fields: layout.fields.map(fieldValue),
+  };
+}
