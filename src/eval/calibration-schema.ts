@@ -40,6 +40,7 @@ export function withReviewThresholds(
     }
   });
   const before = doc.commentBefore ? `${doc.commentBefore}\n` : '';
-  doc.commentBefore = `${before} ${note}`;
-  return doc.toString();
+  doc.commentBefore = `${before} ${note.trim()}`;
+  // Keep the hand-written look: no padding inside [ ], no folding of long lines.
+  return doc.toString({ flowCollectionPadding: false, lineWidth: 0 });
 }
