@@ -69,7 +69,10 @@ export const numberField: FieldType<NumberOptions> = {
   ocrDefaults: (o) =>
     o.unit ? { mode: 'line' } : { mode: 'line', allowed: `0123456789+-${o.decimalSeparator}${groupSeparators(o.decimalSeparator)}` },
   interpret(reading, o) {
-    return interpretText(ocrText(reading, 'number'), o, true);
+    const text = ocrText(reading, 'number');
+    // The OCR cleanup strips a leading "-" as a border fragment; a minus right before a digit is a sign.
+    const signed = reading.kind === 'text' && /^\s*[-\u2212]\s*\d/.test(reading.text) && !text.startsWith('-');
+    return interpretText(signed ? `-${text}` : text, o, true);
   },
   parseCorrection(text, o) {
     return interpretText(text, o, false);

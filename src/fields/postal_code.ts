@@ -52,7 +52,8 @@ function caPostalCode(compact: string): { text: string; repairs: number } | null
 
 /**
  * United Kingdom: an outward code (A9, A99, AA9, AA99, A9A or AA9A), a space, and an inward code of one digit and two
- * letters, the inward letters never C, I, K, M, O or V; plus the special "GIR 0AA" — Royal Mail Programmers' Guide
+ * letters; Q, V and X never first, I, J and Z never second, the inward letters never C, I, K, M, O or V; plus the
+ * special "GIR 0AA" — Royal Mail Programmers' Guide
  * to the Postcode Address File (from memory). Only the unambiguous slots are repaired: the first character (always
  * a letter) and the inward code (digit, letter, letter).
  */
@@ -68,7 +69,8 @@ function gbPostcode(compact: string): { text: string; repairs: number } | null {
   const inward = r.text.slice(-3);
   const ok =
     r.text === 'GIR0AA' ||
-    (/^([A-Z]\d{1,2}|[A-Z]{2}\d{1,2}|[A-Z]\d[A-Z]|[A-Z]{2}\d[A-Z])$/.test(outward) && /^\d[ABD-HJLNP-UW-Z]{2}$/.test(inward));
+    (/^([A-PR-UWYZ]\d{1,2}|[A-PR-UWYZ][A-HK-Y]\d{1,2}|[A-PR-UWYZ]\d[A-Z]|[A-PR-UWYZ][A-HK-Y]\d[A-Z])$/.test(outward) &&
+      /^\d[ABD-HJLNP-UW-Z]{2}$/.test(inward));
   return ok ? { text: `${outward} ${inward}`, repairs: r.repairs } : null;
 }
 

@@ -1,0 +1,286 @@
+import type { Box } from '../page/geometry.js';
+import type { GrayImage } from '../page/raster.js';
+import { thresholdAt, INK } from './cleanup/binary.js';
+import { labelComponents } from './cleanup/components.js';
+import { estimateSkew, rotateGray } from './cleanup/deskew.js';
+import { removeRuledLines } from './cleanup/line-removal.js';
+import { otsuThreshold } from './cleanup/otsu.js';
+
+/**
+ * Checkbox fill and signature ink, measured on a grayscale crop (0 = ink, 255 = paper).
+ *
+ * Binarization is Otsu's threshold (see cleanup/otsu.ts), computed twice: over the whole crop to learn the paper level
+ * and to find the printed outline, then over the inside of the box alone so that a light pencil tick is judged
+ * against the paper around it rather than against the black printed border.
+ */
+
+/**
+ * Two tones whose means differ by less than this many gray levels are one tone (paper grain, or a solid fill): Otsu
+ * always splits a histogram in two, even a flat one. 25 levels keeps a blurred light-pencil tick on a poor scan
+ * (paper 220-250, noise sigma up to 12, JPEG 30-90) while leaving paper grain alone; 30 lost one pencil tick in
+ * twenty, 40 lost half of them (measured with the heavy scan simulation of src/synth on rendered boxes, 22-42 px,
+ * seeds 900000-900019; the figures are in test/fields/checkbox-pixels.test.ts).
+ */
+const MIN_CONTRAST = 25;
+
+interface Split {
+  threshold: number;
+  darkMean: number;
+  lightMean: number;
+}
+
+function otsuSplit(values: Uint8Array): Split {
+  const hist = new Float64Array(256);
+  for (const v of values) hist[v]++;
+  // -1: a single gray level, no split; every pixel then falls in the "light" class and the contrast is zero.
+  const threshold = otsuThreshold(hist);
+  let dark = 0;
+  let darkSum = 0;
+  let lightSum = 0;
+  for (const v of values) {
+    if (v <= threshold) {
+      dark++;
+      darkSum += v;
+    } else lightSum += v;
+  }
+  const light = values.length - dark;
+  const lightMean = light ? lightSum / light : darkSum / dark;
+  return { threshold, darkMean: dark ? darkSum / dark : lightMean, lightMean };
+}
+
+function isInk(mask: Uint8Array, w: number, x: number, y: number): boolean {
+  return mask[y * w + x] === 1;
+}
+
+/** 1 where a binary image holds ink. */
+function maskOf(binary: GrayImage): Uint8Array {
+  const m = new Uint8Array(binary.data.length);
+  for (let i = 0; i < m.length; i++) m[i] = binary.data[i] === INK ? 1 : 0;
+  return m;
+}
+
+/** Longest run of ink along each row (horizontal) or each column (vertical). */
+function longestRuns(mask: Uint8Array, w: number, h: number, horizontal: boolean): Int32Array {
+  const n = horizontal ? h : w;
+  const len = horizontal ? w : h;
+  const out = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    let run = 0;
+    let best = 0;
+    for (let j = 0; j < len; j++) {
+      const ink = horizontal ? isInk(mask, w, j, i) : isInk(mask, w, i, j);
+      run = ink ? run + 1 : 0;
+      if (run > best) best = run;
+    }
+    out[i] = best;
+  }
+  return out;
+}
+
+interface Band {
+  start: number;
+  end: number;
+}
+
+/** Consecutive indices whose run reaches minRun, merged across one-pixel gaps (a broken scan line). */
+function bands(runs: Int32Array, minRun: number): Band[] {
+  const out: Band[] = [];
+  for (let i = 0; i < runs.length; i++) {
+    if (runs[i] < minRun) continue;
+    const last = out[out.length - 1];
+    if (last && i - last.end <= 2) last.end = i;
+    else out.push({ start: i, end: i });
+  }
+  return out;
+}
+
+export interface MarkMeasure {
+  /** Share of the inside of the box that is ink, 0..1. */
+  fillRatio: number;
+  /** Whether a printed outline was found; when not, the central part of the crop was measured instead. */
+  boxFound: boolean;
+  /** The printed outline (crop pixels), when found. */
+  box?: Box;
+  /** The measured inside (crop pixels). */
+  inner: Box;
+  shape: 'square' | 'circle' | 'solid' | 'none';
+}
+
+function insetBox(b: Box, dx: number, dy: number): Box {
+  const w = Math.max(1, b.w - 2 * dx);
+  const h = Math.max(1, b.h - 2 * dy);
+  return { x: b.x + Math.min(dx, (b.w - 1) / 2), y: b.y + Math.min(dy, (b.h - 1) / 2), w, h };
+}
+
+/**
+ * Margin kept clear of the border's inner edge: anti-aliasing and a slightly rotated scan put gray pixels there
+ * (8 % of the box side, at least one pixel; common practice, checked on the rendered boxes of test/fields/checkbox-pixels.test.ts).
+ */
+function innerMargin(side: number): number {
+  return Math.max(1, Math.round(side * 0.08));
+}
+
+interface Outline {
+  box: Box;
+  inner: Box;
+  shape: 'square' | 'circle' | 'solid';
+}
+
+/**
+ * A printed square: the first and last rows (columns) whose longest ink run spans at least 40 % of the crop's shorter
+ * side are its top and bottom (left and right) edges. Diagonal strokes of a tick or cross have short runs along
+ * rows and columns, so they do not pass for edges even where they overshoot the box.
+ */
+function findSquare(mask: Uint8Array, w: number, h: number): Outline | null {
+  const side = Math.min(w, h);
+  const minRun = Math.max(3, Math.round(side * 0.4));
+  const rows = bands(longestRuns(mask, w, h, true), minRun);
+  const cols = bands(longestRuns(mask, w, h, false), minRun);
+  if (rows.length === 0 || cols.length === 0) return null;
+  const top = rows[0];
+  const bottom = rows[rows.length - 1];
+  const left = cols[0];
+  const right = cols[cols.length - 1];
+  const box = { x: left.start, y: top.start, w: right.end - left.start + 1, h: bottom.end - top.start + 1 };
+  if (box.w < minRun || box.h < minRun || box.w / box.h > 2 || box.h / box.w > 2) return null;
+  const m = innerMargin(Math.min(box.w, box.h));
+  if (top === bottom || left === right) {
+    // One band each way covering the whole box: a solidly filled square; keep clear of its edges only.
+    return { box, inner: insetBox(box, m * 2, m * 2), shape: 'solid' };
+  }
+  const inner = {
+    x: left.end + 1 + m,
+    y: top.end + 1 + m,
+    w: right.start - left.end - 1 - 2 * m,
+    h: bottom.start - top.end - 1 - 2 * m,
+  };
+  if (inner.w < 2 || inner.h < 2) return null;
+  return { box, inner, shape: 'square' };
+}
+
+/**
+ * A printed circle (radio button): the largest 8-connected ink component whose bounding box is roughly square and
+ * at least 40 % of the crop's shorter side.
+ */
+function findCircle(binary: GrayImage, mask: Uint8Array): Outline | null {
+  const side = Math.min(binary.width, binary.height);
+  let best: Box | null = null;
+  for (const c of labelComponents(binary).components) {
+    const { w: bw, h: bh } = c.box;
+    if (bw < side * 0.4 || bh < side * 0.4 || bw / bh > 1.5 || bh / bw > 1.5) continue;
+    if (!best || bw * bh > best.w * best.h) best = c.box;
+  }
+  if (!best) return null;
+  const ring = ringWidth(mask, binary.width, best);
+  if (ring >= best.w / 3) return { box: best, inner: insetBox(best, best.w * 0.2, best.h * 0.2), shape: 'solid' };
+  const m = innerMargin(Math.min(best.w, best.h));
+  return { box: best, inner: insetBox(best, ring + m, ring + m), shape: 'circle' };
+}
+
+/**
+ * Width of a ring's stroke: on the five rows around the middle, the first ink run met from the left edge of its
+ * bounding box (a slightly rotated or blurred ring need not have ink in the very first column); the widest counts.
+ */
+function ringWidth(mask: Uint8Array, w: number, b: Box): number {
+  let widest = 0;
+  const mid = b.y + Math.floor(b.h / 2);
+  for (let y = Math.max(b.y, mid - 2); y <= Math.min(b.y + b.h - 1, mid + 2); y++) {
+    let x = b.x;
+    const end = b.x + Math.floor(b.w / 2);
+    while (x < end && !isInk(mask, w, x, y)) x++;
+    let run = 0;
+    while (x + run < end && isInk(mask, w, x + run, y)) run++;
+    widest = Math.max(widest, x - b.x + run);
+  }
+  return widest;
+}
+
+/** Pixels of the measured inside: the whole rectangle for squares, the inscribed ellipse for circles. */
+function innerPixels(img: GrayImage, inner: Box, ellipse: boolean): Uint8Array {
+  const x0 = Math.round(inner.x);
+  const y0 = Math.round(inner.y);
+  const w = Math.max(1, Math.round(inner.w));
+  const h = Math.max(1, Math.round(inner.h));
+  const out: number[] = [];
+  const cx = (w - 1) / 2;
+  const cy = (h - 1) / 2;
+  for (let y = 0; y < h; y++)
+    for (let x = 0; x < w; x++) {
+      if (ellipse && ((x - cx) / (w / 2)) ** 2 + ((y - cy) / (h / 2)) ** 2 > 1) continue;
+      const px = x0 + x;
+      const py = y0 + y;
+      if (px >= 0 && py >= 0 && px < img.width && py < img.height) out.push(img.data[py * img.width + px]);
+    }
+  return Uint8Array.from(out);
+}
+
+/**
+ * Share of ink inside a set of pixels. Otsu over those pixels when they hold two clearly different tones (a mark on
+ * paper); otherwise they are one tone, which counts as ink when clearly darker than the paper around the box.
+ */
+function fillOf(values: Uint8Array, paper: number): number {
+  if (values.length === 0) return 0;
+  const s = otsuSplit(values);
+  // Otsu's dark class is ink only when it is clearly darker both than the rest and than the paper: a white speck
+  // on plain paper also splits the histogram, with the paper itself as the "dark" class.
+  const twoTones = s.lightMean - s.darkMean >= MIN_CONTRAST && s.darkMean <= paper - MIN_CONTRAST;
+  const threshold = twoTones ? s.threshold : paper - MIN_CONTRAST;
+  let ink = 0;
+  for (const v of values) if (v <= threshold) ink++;
+  return ink / values.length;
+}
+
+/**
+ * Fill ratio of a checkbox crop: find the printed square (or circle), measure its inside with the border excluded.
+ * Without an outline (a crop that missed it, or no printed box at all) the middle 70 % of the crop is measured and
+ * boxFound is false so that scoring can lower the confidence.
+ */
+export function measureMark(img: GrayImage): MarkMeasure {
+  const whole = otsuSplit(img.data);
+  const paper = whole.lightMean;
+  const fallback = insetBox({ x: 0, y: 0, w: img.width, h: img.height }, img.width * 0.15, img.height * 0.15);
+  if (whole.lightMean - whole.darkMean < MIN_CONTRAST) {
+    // One tone over the whole crop: blank paper (or a crop entirely inside a solid fill).
+    return { fillRatio: fillOf(img.data, 255), boxFound: false, inner: fallback, shape: 'none' };
+  }
+  const binary = thresholdAt(img, whole.threshold);
+  const mask = maskOf(binary);
+  const outline = findSquare(mask, img.width, img.height) ?? findCircle(binary, mask);
+  if (!outline) {
+    return { fillRatio: fillOf(innerPixels(img, fallback, false), paper), boxFound: false, inner: fallback, shape: 'none' };
+  }
+  const values = innerPixels(img, outline.inner, outline.shape === 'circle');
+  return { fillRatio: fillOf(values, paper), boxFound: true, box: outline.box, inner: outline.inner, shape: outline.shape };
+}
+
+/**
+ * Ink coverage of a signature area: share of the area covered by pen strokes. The crop is deskewed (so the printed
+ * signature line is straight), printed rules are removed (ink runs spanning half the width or height; a signature
+ * stroke is never that straight, common practice), and only components at least a fifth of the crop height tall
+ * are kept: printed label words ("Signature of applicant") are flatter, a signature's connected loops taller
+ * (measured on rendered areas in test/fields/signature-pixels.test.ts). A 4 % margin at each edge is left out
+ * (border fragments of a padded crop).
+ */
+export function inkCoverage(img: GrayImage): number {
+  const { width: w, height: h } = img;
+  const s = otsuSplit(img.data);
+  if (s.lightMean - s.darkMean < MIN_CONTRAST) return 0;
+  let binary = thresholdAt(img, s.threshold);
+  const skew = estimateSkew(binary, 4, 0.25);
+  if (skew !== 0) binary = thresholdAt(rotateGray(img, skew), s.threshold);
+  const clean = removeRuledLines(binary, { minHorizontal: Math.round(w * 0.5), minVertical: Math.round(h * 0.5) }).image;
+  const { labels, components } = labelComponents(clean);
+  const minSize = h * 0.2;
+  const stroke = new Uint8Array(components.length + 1);
+  for (const c of components) if (c.box.h >= minSize) stroke[c.id] = 1;
+  const mx = Math.round(w * 0.04);
+  const my = Math.round(h * 0.04);
+  let ink = 0;
+  let area = 0;
+  for (let y = my; y < h - my; y++)
+    for (let x = mx; x < w - mx; x++) {
+      area++;
+      if (stroke[labels[y * w + x]]) ink++;
+    }
+  return area ? ink / area : 0;
+}
