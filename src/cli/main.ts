@@ -8,6 +8,7 @@ import { registerSchemaCommand } from './schema.js';
 import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
 import { registerReviewCommand } from './review.js';
+import { registerExportCommand } from './export.js';
 
 const program = new Command();
 program
@@ -25,6 +26,7 @@ registerCalibrateCommand(program);
 registerDetectorCommand(program);
 registerSamplesCommand(program);
 registerReviewCommand(program);
+registerExportCommand(program);
 
 async function main(): Promise<void> {
   try {
