@@ -7,6 +7,7 @@
  *   await runBatch({ inputs: ['scans/'], schema, detector, outDir: 'out' });
  */
 export { loadSchema, parseSchemaText, referenceImagePath } from './schema/load.js';
+export { loadSchemas } from './schema/load-many.js';
 export type { LoadedSchema } from './schema/load.js';
 export { FormSchema, FieldSpec } from './schema/definition.js';
 export { checkSchemaAgainstClasses, checkSchemaConsistency } from './schema/consistency.js';

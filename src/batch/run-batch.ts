@@ -16,12 +16,14 @@ import { documentJsonName, failedLine, okLine, writeBatchOutputs } from './sinks
 
 export interface BatchOptions {
   inputs: readonly string[];
-  schema: LoadedSchema;
+  /** One schema, or several (each document goes to the layout it aligns with best). */
+  schemas: readonly LoadedSchema[];
   detector: Detector;
   outDir: string;
   /** Reuse a document's JSON when the file, schema and model are unchanged since it was written. */
   resume?: boolean;
   deskew?: boolean;
+  orientation?: boolean;
   today?: Date;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
@@ -47,7 +49,7 @@ async function reusable(jsonFile: string, file: string, options: BatchOptions): 
     const sha = createHash('sha256').update(await readFile(file)).digest('hex');
     const same =
       previous.document.sha256 === sha &&
-      previous.schema.sha256 === options.schema.sha256 &&
+      options.schemas.some((s) => s.sha256 === previous.schema.sha256) &&
       previous.model.sha256 === options.detector.sha256;
     return same ? previous : null;
   } catch {
@@ -81,10 +83,11 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
     } else {
       try {
         const { result, pages } = await extractDocument(file, {
-          schema: options.schema,
+          schema: options.schemas,
           detector: options.detector,
           documentId: id,
           deskew: options.deskew,
+          orientation: options.orientation,
           today: options.today,
         });
         await writeJsonAtomic(jsonFile, result);

@@ -6,16 +6,21 @@ import { configError } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
-import { loadSchema } from '../schema/load.js';
+import { loadSchemas } from '../schema/load-many.js';
 
 interface ExtractCliOptions {
-  schema: string;
+  schema: string[];
   model: string;
   out: string;
   resume?: boolean;
   deskew: boolean;
+  orientation: boolean;
   threads?: string;
   quiet?: boolean;
+}
+
+function collect(value: string, previous: string[]): string[] {
+  return [...previous, value];
 }
 
 export function registerExtractCommand(program: Command): void {
@@ -23,11 +28,12 @@ export function registerExtractCommand(program: Command): void {
     .command('extract')
     .description('Read scanned forms into checked JSON records, a review queue and a summary')
     .argument('<inputs...>', 'image files (png, jpeg, tiff, webp), folders or glob patterns')
-    .requiredOption('--schema <file>', 'form schema (YAML or JSON)')
+    .requiredOption('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .requiredOption('--out <dir>', 'results folder')
     .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--no-deskew', 'do not correct small page skew')
+    .option('--no-orientation', 'do not look for pages turned by 90, 180 or 270 degrees')
     .option('--threads <n>', 'onnxruntime intra-op threads')
     .option('--quiet', 'print only the summary')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
@@ -35,18 +41,21 @@ export function registerExtractCommand(program: Command): void {
       if (threads !== undefined && (!Number.isInteger(threads) || threads < 1)) {
         throw configError(undefined, `--threads: expected a whole number >= 1 but received "${opts.threads}"`);
       }
-      const schema = await loadSchema(opts.schema);
+      const schemas = await loadSchemas(opts.schema);
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
-      const problems = checkSchemaAgainstClasses(schema.schema, detector.classNames);
-      if (problems.length > 0) throw configError(opts.schema, problems[0]);
+      for (const s of schemas) {
+        const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
+        if (problems.length > 0) throw configError(s.path, problems[0]);
+      }
       try {
         const report = await runBatch({
           inputs,
-          schema,
+          schemas,
           detector,
           outDir: opts.out,
           resume: opts.resume,
           deskew: opts.deskew,
+          orientation: opts.orientation,
           onDocument: (e) => {
             if (opts.quiet) return;
             const name = path.relative(process.cwd(), e.file) || e.file;

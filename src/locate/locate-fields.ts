@@ -4,7 +4,7 @@ import { iou, transformBox } from '../page/geometry.js';
 import type { FieldSpec } from '../schema/definition.js';
 import type { ExpectedPart } from './expected-boxes.js';
 import { expectedParts } from './expected-boxes.js';
-import { greedyMatch } from './fit-scale-translation.js';
+import { greedyMatch } from './greedy-match.js';
 
 export interface LocatedPart {
   key: string;

@@ -1,31 +1,39 @@
 import type { Detection } from '../detect/types.js';
-import type { Affine } from '../page/geometry.js';
 import { expectedParts } from '../locate/expected-boxes.js';
-import { fitScaleTranslation } from '../locate/fit-scale-translation.js';
-import type { FieldSpec } from '../schema/definition.js';
+import { alignPage } from '../page/align.js';
+import type { Alignment, LayoutRegion } from '../page/alignment.js';
+import type { GrayImage } from '../page/raster.js';
 import type { PageResult } from '../result/document.js';
+import type { LoadedSchema } from '../schema/load.js';
+import { referencePageImage } from './reference-images.js';
 
-export interface PageAlignment {
-  /** Reference layout → normalized page. */
-  refToPage: Affine;
-  record: NonNullable<PageResult['alignment']>;
+/** The schema's regions on one reference page, with the detector class that should find each. */
+export function layoutRegions(loaded: LoadedSchema, pageIndex: number): LayoutRegion[] {
+  const fields = loaded.schema.fields.filter((f) => f.page === pageIndex);
+  return expectedParts(fields).flatMap((p) => (p.region ? [{ box: p.region, className: p.className }] : []));
 }
 
-/**
- * Fit the reference layout to the page: start from the ratio of page sizes (a scan of the same paper at another DPI),
- * then fit scale and translation to the detections matched by class and region.
- */
-export function alignPage(
-  fields: readonly FieldSpec[],
+/** Align an upright page to a schema page by detections and, where the schema has one, its blank image. */
+export async function alignToSchemaPage(
+  loaded: LoadedSchema,
+  pageIndex: number,
+  page: GrayImage,
   detections: readonly Detection[],
-  reference: { width: number; height: number },
-  page: { width: number; height: number },
-): PageAlignment {
-  const initial: Affine = { a: page.width / reference.width, b: 0, c: 0, d: 0, e: page.height / reference.height, f: 0 };
-  const fit = fitScaleTranslation(expectedParts(fields), detections, initial);
-  const method = fit.residual === null ? 'page_size' : 'scale_translation';
+): Promise<Alignment> {
+  const referenceSize = loaded.schema.pages[pageIndex];
+  const reference = await referencePageImage(loaded, pageIndex);
+  return alignPage({ page, referenceSize, reference, detections, regions: layoutRegions(loaded, pageIndex) });
+}
+
+const round = (v: number, k = 100) => Math.round(v * k) / k;
+
+export function alignmentRecord(a: Alignment): NonNullable<PageResult['alignment']> {
+  const t = a.transform;
   return {
-    refToPage: fit.transform,
-    record: { method, transform: fit.transform, residual: fit.residual === null ? null : Math.round(fit.residual * 100) / 100, matched: fit.matched },
+    method: a.method,
+    transform: { a: round(t.a, 1e6), b: round(t.b, 1e6), c: round(t.c, 1e3), d: round(t.d, 1e6), e: round(t.e, 1e6), f: round(t.f, 1e3) },
+    residual: a.residual === null ? null : round(a.residual),
+    matched: a.inliers,
+    score: round(a.score, 1000),
   };
 }

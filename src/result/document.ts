@@ -65,6 +65,8 @@ export const PageResult = z.object({
       transform: z.object({ a: z.number(), b: z.number(), c: z.number(), d: z.number(), e: z.number(), f: z.number() }),
       residual: z.number().nullable(),
       matched: z.number().int(),
+      /** 0..1 quality of the fit (image correlation, or share of regions matched). */
+      score: z.number().optional(),
     })
     .nullable(),
   detections: z.number().int(),
@@ -78,6 +80,14 @@ export const DocumentResult = z.object({
   document: Identified,
   schema: z.object({ name: z.string(), version: z.string(), path: z.string(), sha256: z.string() }),
   model: Identified,
+  /** Which schema the document was assigned to when several were given, with every candidate's score. */
+  layout: z
+    .object({
+      status: z.enum(['assigned', 'unknown_layout']),
+      score: z.number(),
+      candidates: z.array(z.object({ schema: z.string(), score: z.number() })),
+    })
+    .optional(),
   createdAt: z.string(),
   pages: z.array(PageResult),
   fields: z.array(FieldResult),

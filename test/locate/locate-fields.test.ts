@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import type { Detection } from '../../src/detect/types.js';
-import { expectedParts } from '../../src/locate/expected-boxes.js';
-import { fitScaleTranslation } from '../../src/locate/fit-scale-translation.js';
 import { locateFields } from '../../src/locate/locate-fields.js';
 import { IDENTITY } from '../../src/page/geometry.js';
 import { parseSchemaText } from '../../src/schema/load.js';
@@ -39,26 +37,6 @@ const det = (className: string, x: number, y: number, w: number, h: number, scor
 const S = 1.5;
 const T = [30, -12];
 const onPage = (x: number, y: number, w: number, h: number) => [x * S + T[0], y * S + T[1], w * S, h * S] as const;
-
-describe('fitting the reference layout to detections', () => {
-  it('recovers scale and translation from matched boxes (exact data, residual 0)', () => {
-    const dets = [
-      det('text_entry', ...onPage(100, 100, 400, 50)),
-      det('text_entry', ...onPage(100, 200, 400, 50)),
-      det('text_entry', ...onPage(600, 200, 200, 50)),
-      det('checkbox', ...onPage(100, 300, 24, 24)),
-      det('checkbox', ...onPage(300, 300, 24, 24)),
-    ];
-    // Start from the page-size ratio only: the shift must be found by the fit.
-    const fit = fitScaleTranslation(expectedParts(schema.fields), dets, { ...IDENTITY, a: 1.5, e: 1.5 });
-    expect(fit.transform.a).toBeCloseTo(S, 6);
-    expect(fit.transform.e).toBeCloseTo(S, 6);
-    expect(fit.transform.c).toBeCloseTo(T[0], 4);
-    expect(fit.transform.f).toBeCloseTo(T[1], 4);
-    expect(fit.residual).toBeCloseTo(0, 6);
-    expect(fit.matched).toBe(5);
-  });
-});
 
 describe('locating fields', () => {
   const refToPage = { a: S, b: 0, c: T[0], d: 0, e: S, f: T[1] };
