@@ -1,0 +1,27 @@
+import { spawn } from 'node:child_process';
+import path from 'node:path';
+
+export const REPO = path.resolve(import.meta.dirname, '../..');
+
+export interface CliRun {
+  code: number | null;
+  stdout: string;
+  stderr: string;
+}
+
+/** Run the real command line (TypeScript sources through tsx) in a child process. */
+export function runCli(args: readonly string[], options: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): Promise<CliRun> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', path.join(REPO, 'src/cli/main.ts'), ...args], {
+      cwd: options.cwd ?? REPO,
+      env: { ...process.env, ...options.env },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (d) => (stdout += d));
+    child.stderr.on('data', (d) => (stderr += d));
+    child.on('error', reject);
+    child.on('close', (code) => resolve({ code, stdout, stderr }));
+  });
+}
