@@ -62,7 +62,7 @@ describe('connected-component filter', () => {
     drawRect(img, 50, 12, 14, 20); // another
     drawRect(img, 80, 30, 1, 1); // a speck
     drawRect(img, 70, 45, 45, 2); // a 2-px sliver left by a rule
-    const { kept, dropped } = filterComponents(img, { scale: 40 });
+    const { kept, dropped } = filterComponents(img, { characterHeight: 16 });
     expect(kept.map((c) => c.box.x).sort((a, b) => a - b)).toEqual([30, 50]);
     expect(dropped).toBe(3);
   });

@@ -57,11 +57,26 @@ function classMeans(hist: Float64Array, t: number): [number, number] {
  * Global Otsu binarization. A crop whose two classes differ by less than `minContrast` gray levels holds no ink
  * worth splitting (a blank cell, paper grain): it becomes all paper. 48 levels is common practice for scans
  * (ink on white paper differs by well over 100 levels), not measured.
+ * Ink covers a small share of a field crop; when the dark class holds more than `maxInkShare` of the pixels, Otsu
+ * has split paper from a tinted cell or a shadow, so the split is repeated inside the dark class (recursive Otsu,
+ * as in multi-level thresholding; the 40 % share is common practice).
  */
-export function binarizeOtsu(img: GrayImage, minContrast = 48): GrayImage {
+export function binarizeOtsu(img: GrayImage, minContrast = 48, maxInkShare = 0.4): GrayImage {
   const hist = histogram(img);
-  const t = otsuThreshold(hist);
+  let t = otsuThreshold(hist);
   if (t < 0) return createGray(img.width, img.height, img.data[0] > 127 ? 255 : 0);
+  for (let round = 0; round < 2; round++) {
+    let dark = 0;
+    for (let i = 0; i <= t; i++) dark += hist[i];
+    if (dark <= maxInkShare * img.data.length) break;
+    const sub = hist.slice();
+    sub.fill(0, t + 1);
+    const t2 = otsuThreshold(sub);
+    if (t2 < 0) break;
+    const [d, l] = classMeans(sub, t2);
+    if (l - d < minContrast) break;
+    t = t2;
+  }
   const [dark, light] = classMeans(hist, t);
   if (light - dark < minContrast) return createGray(img.width, img.height, 255);
   return thresholdAt(img, t);

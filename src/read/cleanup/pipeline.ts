@@ -3,9 +3,9 @@ import type { GrayImage } from '../../page/raster.js';
 import { binarizeOtsu } from './otsu.js';
 import { binarizeSauvola } from './sauvola.js';
 import { estimateSkew, rotateGray } from './deskew.js';
-import { removeRuledLines } from './line-removal.js';
+import { removeDashedRules, removeRuledLines } from './line-removal.js';
 import { filterComponents } from './components.js';
-import { inkBounds, isolateTextBand } from './text-band.js';
+import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { upscaleToCharacterHeight } from './upscale.js';
 import { padImage, trimAndPad } from './pad.js';
 import { thresholdAt } from './binary.js';
@@ -70,16 +70,18 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
       return { ...s, image: binarizeSauvola(s.image, { window: Math.max(15, Math.round(s.inner.h) | 1) }), binary: true };
     case 'lines': {
       const b = ensureBinary(s);
-      return { ...b, image: removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image };
+      return { ...b, image: removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image) };
     }
     case 'components': {
       const b = ensureBinary(s);
-      return { ...b, image: filterComponents(b.image, { scale: b.inner.h, inside: b.inner }).image };
+      return { ...b, image: filterComponents(b.image, { inside: b.inner }).image };
     }
     case 'band': {
       const b = ensureBinary(s);
       const mode = ctx.mode === 'block' ? 'block' : 'line';
-      return { ...b, image: isolateTextBand(b.image, { mode, inside: b.inner }).image };
+      // Cutting out the band can leave the piece of a box side that ran through it: filter once more.
+      const band = isolateTextBand(b.image, { mode, inside: b.inner }).image;
+      return { ...b, image: dropStrayEnds(filterComponents(band, { dropBorder: false }).image) };
     }
     case 'compact': {
       // Only comb writing is spread a cell apart; free text keeps its own spacing.

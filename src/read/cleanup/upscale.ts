@@ -1,20 +1,11 @@
 import type { GrayImage } from '../../page/raster.js';
 import { createGray } from '../../page/raster.js';
-import { labelComponents } from './components.js';
+import { labelComponents, typicalHeight } from './components.js';
 import { thresholdAt } from './binary.js';
 
-/**
- * Typical height of the characters in a binary crop: the median height of components at least 3 px tall.
- * For mixed-case text that is close to the x-height (most letters are x-height letters); for digits and capitals
- * it is the cap height, which is what tesseract sees as the line's body there.
- */
+/** Typical character height of a binary crop (see typicalHeight), or null when it holds no glyph-like ink. */
 export function characterHeight(img: GrayImage): number | null {
-  const heights = labelComponents(img)
-    .components.map((c) => c.box.h)
-    .filter((h) => h >= 3)
-    .sort((a, b) => a - b);
-  if (heights.length === 0) return null;
-  return heights[Math.floor(heights.length / 2)];
+  return typicalHeight(labelComponents(img).components);
 }
 
 /** Bilinear resampling by a factor (pixel centres aligned; common practice). */

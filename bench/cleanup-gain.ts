@@ -1,0 +1,230 @@
+/**
+ * Gain of each crop-cleanup step on degraded generated pages read with PERFECT boxes (the truth boxes), so only
+ * cleanup and OCR are measured. Prints a table: exact-match % of the filled OCR fields (text as written, whitespace
+ * collapsed), character error rate, and seconds per field, for a ladder of cumulative steps.
+ *
+ *   npx tsx bench/cleanup-gain.ts [--data DIR] [--layout random] [--count 8] [--seed 900000]
+ *                                 [--degrade heavy] [--fill typed] [--padding 4] [--rows name,name]
+ *
+ * Without --data it generates the pages once into bench/out/cleanup-gain/ (held-out seeds: >= 900000 only).
+ * Prints no field values (only counts and rates).
+ */
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import { distance } from 'fastest-levenshtein';
+import { grayFromImage, type GrayImage } from '../src/page/raster.js';
+import { cropField } from '../src/read/crop.js';
+import { cleanCrop, isBlank, type CleanupStep } from '../src/read/cleanup/pipeline.js';
+import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
+import { readTextField } from '../src/read/read-text.js';
+import { getFieldType } from '../src/fields/registry.js';
+import type { OcrMode, TextReading } from '../src/fields/types.js';
+import { generateSamples } from '../src/synth/generate.js';
+
+const { values: args } = parseArgs({
+  options: {
+    data: { type: 'string' },
+    layout: { type: 'string', default: 'random' },
+    count: { type: 'string', default: '8' },
+    seed: { type: 'string', default: '900000' },
+    degrade: { type: 'string', default: 'heavy' },
+    fill: { type: 'string', default: 'typed' },
+    padding: { type: 'string', default: '4' },
+    rows: { type: 'string' },
+  },
+});
+
+interface TruthField {
+  name: string;
+  type: string;
+  class: string;
+  value: unknown;
+  text: string | null;
+  box: [number, number, number, number];
+}
+interface Truth {
+  file: string;
+  skew: number;
+  fields: TruthField[];
+}
+
+/** A field to read: where, what was written, and the OCR settings its schema would give. */
+interface Sample {
+  page: number;
+  field: TruthField;
+  mode: OcrMode;
+  allowed?: string;
+  options: unknown;
+}
+
+const seed = Number(args.seed);
+if (!(seed >= 900000)) throw new Error(`--seed must be a held-out seed (>= 900000), got ${args.seed}`);
+const padding = /%$/.test(args.padding!) ? args.padding! : Number(args.padding);
+
+async function dataDir(): Promise<string> {
+  if (args.data) return args.data;
+  const dir = path.join('bench', 'out', 'cleanup-gain', `${args.layout}-s${seed}-n${args.count}-${args.degrade}-${args.fill}`);
+  if (!existsSync(path.join(dir, 'coco.json'))) {
+    process.stderr.write(`generating ${args.count} pages into ${dir}\n`);
+    await generateSamples({
+      layout: args.layout as never,
+      count: Number(args.count),
+      seed,
+      out: dir,
+      fill: args.fill as never,
+      degrade: args.degrade as never,
+      styles: 'all' as never,
+      format: 'png',
+      upsideDownRate: 0,
+    });
+  }
+  return dir;
+}
+
+/**
+ * The schema a form designer would write for a generated field: the date's written order, the postal code's
+ * country, the decimal separator. The truth files carry the value as written, and its shape decides these, as the
+ * printed form would.
+ */
+function schemaOptions(f: TruthField): Record<string, unknown> {
+  const text = f.text ?? '';
+  switch (f.type) {
+    case 'date': {
+      const formats: Record<string, RegExp> = {
+        'DD.MM.YYYY': /^\d{2}\.\d{2}\.\d{4}$/,
+        'MM/DD/YYYY': /^\d{2}\/\d{2}\/\d{4}$/,
+        'YYYY-MM-DD': /^\d{4}-\d{2}-\d{2}$/,
+        'D MMM YYYY': /^\d{1,2} [A-Za-z]{3} \d{4}$/,
+        'MM-DD-YYYY': /^\d{2}-\d{2}-\d{4}$/,
+        'DD/MM/YYYY': /^\d{2}\/\d{2}\/\d{4}$/,
+      };
+      const hit = Object.entries(formats).filter(([, re]) => re.test(text)).map(([k]) => k);
+      return { formats: hit.length ? hit : Object.keys(formats) };
+    }
+    case 'postal_code':
+      return { country: /^\d/.test(text) ? 'US' : /^[A-Z]\d[A-Z]/.test(text) ? 'CA' : 'GB' };
+    case 'number':
+      return { decimalSeparator: /\d,\d{1,2}$/.test(text) ? ',' : '.' };
+    case 'phone':
+      return { defaultRegion: 'US' };
+    default:
+      return {};
+  }
+}
+
+function samplesOf(truths: Truth[]): Sample[] {
+  const out: Sample[] = [];
+  truths.forEach((t, page) => {
+    for (const f of t.fields) {
+      if (f.text === null || (f.class !== 'text_entry' && f.class !== 'comb_field')) continue;
+      // The allowed list of a choice_text field is not in the truth: check it as free text.
+      const type = getFieldType(f.type === 'choice_text' ? 'text' : f.type);
+      if (type.reader !== 'ocr') continue;
+      const options = type.options.parse(schemaOptions(f));
+      const defaults = type.ocrDefaults?.(options) ?? {};
+      out.push({ page, field: f, mode: f.text.includes('\n') ? 'block' : (defaults.mode ?? 'line'), allowed: defaults.allowed, options });
+    }
+  });
+  return out;
+}
+
+/**
+ * Exact match after collapsing whitespace and dropping spaces beside separators: "09 / 10 / 1989" written in
+ * printed part boxes is the value "09/10/1989"; a space inside words still counts.
+ */
+const norm = (s: string) =>
+  s
+    .replace(/\s+/g, ' ')
+    .replace(/ ?([/.\-]) ?/g, '$1')
+    .trim();
+
+interface Row {
+  name: string;
+  steps: CleanupStep[];
+  /** Give tesseract the field type's allowed characters. */
+  perType?: boolean;
+  /** Use the page's skew from the truth instead of estimating it per crop. */
+  pageSkew?: boolean;
+  /** readTextField with the type's validation as the accept check (second variants). */
+  fallback?: boolean;
+}
+
+const LADDER: Row[] = [
+  { name: 'plain crop', steps: [] },
+  { name: '+ Otsu binarization', steps: ['otsu'] },
+  { name: '+ ruled-line/comb removal', steps: ['otsu', 'lines'] },
+  { name: '+ component filter', steps: ['otsu', 'lines', 'components'] },
+  { name: '+ text band isolation', steps: ['otsu', 'lines', 'components', 'band'] },
+  { name: '+ comb gap compaction', steps: ['otsu', 'lines', 'components', 'band', 'compact'] },
+  { name: '+ upscale to char height', steps: ['otsu', 'lines', 'components', 'band', 'compact', 'upscale'] },
+  { name: '+ trim and white border', steps: ['otsu', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'] },
+  { name: '+ crop deskew', steps: ['deskew', 'otsu', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'] },
+  { name: '+ per-type characters', steps: ['deskew', 'otsu', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'], perType: true },
+  { name: '+ second variant on invalid', steps: [], perType: true, fallback: true },
+];
+const ALTERNATIVES: Row[] = [
+  { name: 'alt: Sauvola instead of Otsu', steps: ['deskew', 'sauvola', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'], perType: true },
+  { name: 'alt: page skew instead of crop', steps: ['deskew', 'otsu', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'], perType: true, pageSkew: true },
+  { name: 'alt: plain crop + border only', steps: ['pad'] },
+];
+
+async function readOne(pages: GrayImage[], truths: Truth[], s: Sample, row: Row): Promise<TextReading> {
+  const box = { x: s.field.box[0], y: s.field.box[1], w: s.field.box[2], h: s.field.box[3] };
+  const comb = s.field.class === 'comb_field';
+  const allowed = row.perType ? s.allowed : undefined;
+  const skew = row.pageSkew ? truths[s.page].skew : undefined;
+  if (row.fallback) {
+    const type = getFieldType(s.field.type === 'choice_text' ? 'text' : s.field.type);
+    const today = new Date();
+    const accept = (r: TextReading) => type.interpret(r, s.options, { today }).outcome === 'valid';
+    return (await readTextField(pages[s.page], box, { padding, mode: s.mode, allowed, comb, accept })).reading;
+  }
+  const crop = cropField(pages[s.page], box, padding);
+  const img = cleanCrop(crop.image, { name: row.name, steps: row.steps }, { inner: crop.inner, mode: s.mode, comb, skew });
+  if (isBlank(img)) return { kind: 'text', text: '', words: [], confidence: 1 };
+  return sharedOcrEngine().read(img, { mode: s.mode, allowed });
+}
+
+async function main(): Promise<void> {
+  const dir = await dataDir();
+  const truthFiles = readdirSync(path.join(dir, 'truth')).filter((f) => f.endsWith('.json')).sort();
+  const truths: Truth[] = truthFiles.map((f) => JSON.parse(readFileSync(path.join(dir, 'truth', f), 'utf8')) as Truth);
+  const pages = await Promise.all(truths.map((t) => grayFromImage(path.join(dir, t.file))));
+  const samples = samplesOf(truths);
+  const combs = samples.filter((s) => s.field.class === 'comb_field').length;
+  const wanted = args.rows?.split(',').map((r) => r.trim());
+  const rows = [...LADDER, ...ALTERNATIVES].filter((r, i) => !wanted || wanted.includes(String(i)));
+
+  console.log(`data: ${dir} (${pages.length} pages, ${samples.length} filled OCR fields, ${combs} comb), padding ${padding}`);
+  console.log('');
+  console.log('| step | exact % | gain | comb exact % | CER % | s/field |');
+  console.log('|---|---:|---:|---:|---:|---:|');
+  let previous: number | null = null;
+  for (const row of rows) {
+    const started = performance.now();
+    let exact = 0, combExact = 0, edits = 0, chars = 0;
+    for (const s of samples) {
+      const r = await readOne(pages, truths, s, row);
+      const got = norm(r.text);
+      const want = norm(s.field.text!);
+      if (got === want) {
+        exact++;
+        if (s.field.class === 'comb_field') combExact++;
+      }
+      // CER: Levenshtein distance / reference length (see test/read/read-text.test.ts for the source).
+      edits += distance(got, want);
+      chars += want.length;
+    }
+    const pct = (100 * exact) / samples.length;
+    const gain = previous === null || row.name.startsWith('alt:') ? '' : `${pct - previous >= 0 ? '+' : ''}${(pct - previous).toFixed(1)}`;
+    if (!row.name.startsWith('alt:')) previous = pct;
+    const secs = (performance.now() - started) / 1000 / samples.length;
+    console.log(
+      `| ${row.name} | ${pct.toFixed(1)} | ${gain} | ${combs ? ((100 * combExact) / combs).toFixed(1) : '-'} | ${((100 * edits) / chars).toFixed(1)} | ${secs.toFixed(2)} |`,
+    );
+  }
+  await closeSharedOcrEngine();
+}
+
+await main();
