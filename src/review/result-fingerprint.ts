@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import { DocumentResult } from '../result/document.js';
 
 /**
  * The parts of a document result that `review apply` itself rewrites: per field the value, its extra forms,
@@ -23,10 +24,12 @@ function canonicalJson(value: unknown): string {
  * Fingerprint of a document result as extraction left it: a sha256 over everything except what review apply
  * changes. It changes when the document is extracted again (new run time, boxes, confidences, raw text) or the
  * JSON is edited by hand outside those parts, and stays put while corrections are applied, so a queue can be
- * applied in several sittings. Takes the raw JSON object so keys unknown to this version count too.
+ * applied in several sittings. The result is read through its contract first, so the in-memory result extract
+ * hands over and the JSON read back from disk give the same fingerprint even if one carries keys the other lacks.
  */
 export function resultFingerprint(doc: unknown): string {
-  const d = (doc ?? {}) as Record<string, unknown>;
+  const parsed = DocumentResult.safeParse(doc);
+  const d = (parsed.success ? parsed.data : (doc ?? {})) as Record<string, unknown>;
   const kept: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(d)) if (!REVIEW_OWNED_DOCUMENT_KEYS.has(k)) kept[k] = v;
   if (Array.isArray(d.fields)) {
