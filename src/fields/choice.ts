@@ -48,7 +48,8 @@ export const choiceField: FieldType<ChoiceOptions> = {
     }
     const reasons = outlineMissing ? ['box_not_found'] : [];
     if (ambiguous) return { value: null, outcome: 'ambiguous', confidence, reasons: [...reasons, 'ambiguous_mark'] };
-    if (o.multiple) return checked.length ? validInterpretation(checked, confidence, reasons) : emptyInterpretation(reasons);
+    // "Tick all that apply" with nothing ticked answers "none": an empty list, which a required group reports missing.
+    if (o.multiple) return checked.length ? validInterpretation(checked, confidence, reasons) : { value: [], outcome: 'empty', confidence, reasons };
     if (checked.length === 1) return validInterpretation(checked[0], confidence, reasons);
     // One answer expected: nothing ticked, or several, needs a person (a skipped question or a changed mind).
     return {
@@ -63,7 +64,7 @@ export const choiceField: FieldType<ChoiceOptions> = {
       .split(/[,;]/)
       .map((t) => t.trim())
       .filter((t) => t !== '');
-    if (typed.length === 0) return emptyInterpretation();
+    if (typed.length === 0) return o.multiple ? { value: [], outcome: 'empty', confidence: 1, reasons: [] } : emptyInterpretation();
     const values: string[] = [];
     for (const t of typed) {
       const hit = o.choices.find((c) => c.value.toLowerCase() === t.toLowerCase());

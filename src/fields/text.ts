@@ -21,12 +21,23 @@ function applyCase(s: string, c: TextOptions['case']): string {
   return s;
 }
 
-function check(value: string, o: TextOptions): Interpretation {
-  if (value === '') return emptyInterpretation();
+/**
+ * OCR puts spaces between characters written in separate cells or spaced apart ("70 4 4 1 2" for a comb of six
+ * digits). When the schema's pattern rejects the text but accepts it without spaces, the spaces were not part of
+ * the value (common practice for comb and code fields).
+ */
+function matches(pattern: string, value: string): boolean {
+  return new RegExp(`^(?:${pattern})$`, 'u').test(value);
+}
+
+function check(read: string, o: TextOptions): Interpretation {
+  if (read === '') return emptyInterpretation();
+  const compact = read.replace(/\s+/g, '');
+  const value = o.pattern !== undefined && !matches(o.pattern, read) && matches(o.pattern, compact) ? compact : read;
   const reasons: string[] = [];
   if (o.minLength !== undefined && value.length < o.minLength) reasons.push('too_short');
   if (o.maxLength !== undefined && value.length > o.maxLength) reasons.push('too_long');
-  if (o.pattern !== undefined && !new RegExp(`^(?:${o.pattern})$`, 'u').test(value)) reasons.push('pattern_mismatch');
+  if (o.pattern !== undefined && !matches(o.pattern, value)) reasons.push('pattern_mismatch');
   // Free text keeps what was read even when a check fails, so a reviewer sees it next to the reason.
   return { value, outcome: reasons.length ? 'invalid' : 'valid', confidence: 1, reasons };
 }

@@ -1,0 +1,33 @@
+import { describe, expect, it } from 'vitest';
+import { cleanOcrText } from '../../src/fields/ocr-text.js';
+import { correctAs, readAs } from './context.js';
+
+describe('text', () => {
+  it('collapses whitespace and strips border fragments OCR reads at the crop edges (common practice)', () => {
+    expect(cleanOcrText('| Juniper   Ashgrove ]')).toBe('Juniper Ashgrove');
+    expect(cleanOcrText('~ 1868 Kestrel Avenue _')).toBe('1868 Kestrel Avenue');
+    expect(readAs('text', '  \n ').outcome).toBe('empty');
+  });
+
+  it('applies the case option', () => {
+    expect(readAs('text', 'JUNIPER ASHGROVE', { case: 'title' }).value).toBe('Juniper Ashgrove');
+    expect(readAs('text', "o'brien-hale", { case: 'title' }).value).toBe("O'Brien-Hale");
+    expect(readAs('text', 'k1a', { case: 'upper' }).value).toBe('K1A');
+    expect(readAs('text', 'Juniper', {}).value).toBe('Juniper');
+  });
+
+  it('checks length and pattern, keeping the text for the reviewer', () => {
+    const short = readAs('text', 'Jo', { minLength: 3 });
+    expect(short).toMatchObject({ outcome: 'invalid', value: 'Jo', reasons: ['too_short'] });
+    expect(readAs('text', 'Juniper', { maxLength: 4 }).reasons).toEqual(['too_long']);
+    expect(readAs('text', 'AB-12', { pattern: '[A-Z]{2}-\\d{2}' }).outcome).toBe('valid');
+    expect(readAs('text', 'AB-1X', { pattern: '[A-Z]{2}-\\d{2}' }).reasons).toEqual(['pattern_mismatch']);
+  });
+
+  it('drops the spaces OCR puts between comb cells when the pattern wants none', () => {
+    expect(readAs('text', '70 4 4 1 2', { pattern: '\\d{6}' }).value).toBe('704412');
+    // Without a pattern, spaces are part of the text.
+    expect(readAs('text', '70 4 4 1 2').value).toBe('70 4 4 1 2');
+    expect(correctAs('text', '  Juniper  Ashgrove ').value).toBe('Juniper Ashgrove');
+  });
+});
