@@ -2,7 +2,7 @@ import type { Affine } from './geometry.js';
 import { invertAffine } from './geometry.js';
 import type { Alignment } from './alignment.js';
 import type { InkMap } from './ink-map.js';
-import { boxBlur, fromLevel, gradients, inkMapOf, projection, toLevel } from './ink-map.js';
+import { blurredInkMap, fromLevel, gradients, projection, toLevel } from './ink-map.js';
 import type { GrayImage } from './raster.js';
 
 /**
@@ -218,9 +218,10 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
     const delta = solve6(H, e);
     if (!delta) break;
     p = p.map((v, i) => v + delta[i]);
-    // Largest displacement of the map's corners (|X|,|Y| <= 1) caused by the update, in page map pixels.
+    // Bound on the displacement of any map point (|X|,|Y| <= 1) caused by the update, in page map pixels;
+    // a fiftieth of a map pixel is far below what the finest level can resolve.
     const move = Math.abs(delta[0]) + Math.abs(delta[1]) + Math.abs(delta[2]) + Math.abs(delta[3]) + Math.abs(delta[4]) + Math.abs(delta[5]);
-    if (move < 0.005) break;
+    if (move < 0.02) break;
   }
   const a = p[0] / sc;
   const b = p[1] / sc;
@@ -237,8 +238,8 @@ function factorFor(img: GrayImage, longSide: number): number {
 function profileStart(page: GrayImage, reference: GrayImage, longSide: number, range: [number, number]): { t: Affine; ncc: number } {
   const kr = factorFor(reference, longSide);
   const kp = factorFor(page, longSide);
-  const r = boxBlur(inkMapOf(reference, kr), 1);
-  const p = boxBlur(inkMapOf(page, kp), 1);
+  const r = blurredInkMap(reference, kr, 1, 1);
+  const p = blurredInkMap(page, kp, 1, 1);
   // Expected scale if page and reference show the same sheet: the ratio of their long sides.
   const s0 = Math.max(page.width, page.height) / kp / (Math.max(reference.width, reference.height) / kr);
   const sr: [number, number] = [s0 * range[0], s0 * range[1]];
@@ -262,8 +263,8 @@ export function alignByImage(page: GrayImage, reference: GrayImage, options: Ima
     const kp = factorFor(page, levels[li]);
     // Wider blur at the coarsest level widens the basin of convergence; finer levels keep detail.
     const radius = li === 0 ? 2 : 1;
-    const r = boxBlur(boxBlur(inkMapOf(reference, kr), radius), radius);
-    const p = boxBlur(boxBlur(inkMapOf(page, kp), radius), radius);
+    const r = blurredInkMap(reference, kr, radius, 2);
+    const p = blurredInkMap(page, kp, radius, 2);
     const res = refineEcc(r, p, toLevel(refToPage, kr, kp), iterations);
     if (!(res.rho > 0)) break;
     refToPage = fromLevel(res.refToPage, kr, kp);

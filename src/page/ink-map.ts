@@ -20,18 +20,43 @@ export function inkMapOf(img: GrayImage, factor: number): InkMap {
   const h = Math.ceil(img.height / k);
   const sum = new Float32Array(w * h);
   const cnt = new Float32Array(w * h);
+  const col = new Int32Array(img.width);
+  for (let x = 0; x < img.width; x++) col[x] = Math.floor(x / k);
   const d = img.data;
   for (let y = 0; y < img.height; y++) {
     const row = Math.floor(y / k) * w;
     const src = y * img.width;
     for (let x = 0; x < img.width; x++) {
-      const o = row + Math.floor(x / k);
+      const o = row + col[x];
       sum[o] += 255 - d[src + x];
       cnt[o]++;
     }
   }
   for (let i = 0; i < sum.length; i++) sum[i] = sum[i] / (cnt[i] * 255);
   return { width: w, height: h, data: sum, factor: k };
+}
+
+const blurredCache = new WeakMap<GrayImage, Map<string, InkMap>>();
+
+/**
+ * inkMapOf followed by `passes` box blurs of radius r, remembered per raster: a batch registers many pages to the
+ * same few blank references, and layout matching registers one page to several references. Rasters are treated
+ * as immutable once made, as everywhere in this code.
+ */
+export function blurredInkMap(img: GrayImage, factor: number, radius: number, passes: number): InkMap {
+  let perImage = blurredCache.get(img);
+  if (!perImage) {
+    perImage = new Map();
+    blurredCache.set(img, perImage);
+  }
+  const key = `${factor}/${radius}/${passes}`;
+  let m = perImage.get(key);
+  if (!m) {
+    m = inkMapOf(img, factor);
+    for (let i = 0; i < passes; i++) m = boxBlur(m, radius);
+    perImage.set(key, m);
+  }
+  return m;
 }
 
 /** Separable box blur of radius r (window 2r+1), edges clamped; twice applied it approximates a Gaussian. */
