@@ -4,7 +4,7 @@ import path from 'node:path';
 import type { Detector } from '../detect/types.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
-import { extractDocument } from '../pipeline/extract-document.js';
+import { extractFile } from '../pipeline/extract-document.js';
 import type { DocumentResult } from '../result/document.js';
 import { DocumentResult as DocumentResultSchema } from '../result/document.js';
 import { writeReviewCrops } from '../review/crops.js';
@@ -12,7 +12,7 @@ import { writeReviewQueue } from '../review/queue-write.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { discoverInputs, documentIds } from './discover.js';
 import type { BatchSummary, ResultsLine } from './sinks.js';
-import { documentJsonName, failedLine, okLine, writeBatchOutputs } from './sinks.js';
+import { documentJsonName, failedLine, okLine, readResultsLines, writeBatchOutputs } from './sinks.js';
 
 export interface BatchOptions {
   inputs: readonly string[];
@@ -43,15 +43,33 @@ export interface BatchReport {
   results: DocumentResult[];
 }
 
-async function reusable(jsonFile: string, file: string, options: BatchOptions): Promise<DocumentResult | null> {
+/**
+ * The records a previous run wrote for this file, when the file, the schemas and the model are unchanged: a file
+ * that held a stack of forms has several (id, id.p2, ...), listed by the previous results.jsonl.
+ */
+async function reusable(
+  outDir: string,
+  previousLines: readonly ResultsLine[],
+  id: string,
+  file: string,
+  options: BatchOptions,
+): Promise<DocumentResult[] | null> {
   try {
-    const previous = DocumentResultSchema.parse(JSON.parse(await readFile(jsonFile, 'utf8')));
+    const own = previousLines.filter((l) => l.path === file && l.ok && l.json);
+    if (own.length === 0) return null;
     const sha = createHash('sha256').update(await readFile(file)).digest('hex');
-    const same =
-      previous.document.sha256 === sha &&
-      options.schemas.some((s) => s.sha256 === previous.schema.sha256) &&
-      previous.model.sha256 === options.detector.sha256;
-    return same ? previous : null;
+    const records: DocumentResult[] = [];
+    for (const l of own) {
+      const previous = DocumentResultSchema.parse(JSON.parse(await readFile(path.join(outDir, l.json as string), 'utf8')));
+      const same =
+        previous.document.sha256 === sha &&
+        (previous.document.id === id || previous.document.id.startsWith(`${id}.p`)) &&
+        options.schemas.some((s) => s.sha256 === previous.schema.sha256) &&
+        previous.model.sha256 === options.detector.sha256;
+      if (!same) return null;
+      records.push(previous);
+    }
+    return records;
   } catch {
     return null;
   }
@@ -66,23 +84,22 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const files = await discoverInputs(options.inputs);
   const ids = documentIds(files);
   await mkdir(options.outDir, { recursive: true });
+  // Read before anything is rewritten: --resume trusts only records that the previous run listed.
+  const previousLines = options.resume ? await readResultsLines(options.outDir).catch(() => []) : [];
   const lines: ResultsLine[] = [];
   const results: DocumentResult[] = [];
   let summary = await writeBatchOutputs(options.outDir, lines);
 
   for (const [index, file] of files.entries()) {
     const id = ids.get(file) as string;
-    const jsonFile = path.join(options.outDir, documentJsonName(id));
-    let line: ResultsLine;
-    let reused = false;
-    const previous = options.resume ? await reusable(jsonFile, file, options) : null;
-    if (previous) {
-      results.push(previous);
-      line = okLine(previous);
-      reused = true;
+    const reused = options.resume ? await reusable(options.outDir, previousLines, id, file, options) : null;
+    const fileLines: ResultsLine[] = [];
+    if (reused) {
+      results.push(...reused);
+      fileLines.push(...reused.map(okLine));
     } else {
       try {
-        const { result, pages } = await extractDocument(file, {
+        const forms = await extractFile(file, {
           schema: options.schemas,
           detector: options.detector,
           documentId: id,
@@ -90,19 +107,21 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
           orientation: options.orientation,
           today: options.today,
         });
-        await writeJsonAtomic(jsonFile, result);
-        await writeReviewCrops(options.outDir, result, pages);
-        results.push(result);
-        line = okLine(result);
+        for (const { result, pages } of forms) {
+          await writeJsonAtomic(path.join(options.outDir, documentJsonName(result.document.id)), result);
+          await writeReviewCrops(options.outDir, result, pages);
+          results.push(result);
+          fileLines.push(okLine(result));
+        }
       } catch (err) {
         if (err instanceof FormgleanError && err.exitCode === 2) throw err;
         const message = err instanceof FormgleanError ? oneLine(err) : `${file}: ${oneLine(err)}`;
-        line = failedLine(id, file, message);
+        fileLines.push(failedLine(id, file, message));
       }
     }
-    lines.push(line);
+    lines.push(...fileLines);
     summary = await writeBatchOutputs(options.outDir, lines);
-    options.onDocument?.({ index, total: files.length, file, line, reused });
+    for (const line of fileLines) options.onDocument?.({ index, total: files.length, file, line, reused: reused !== null });
   }
   await writeReviewQueue(options.outDir, results);
   return { summary, lines, results };

@@ -14,6 +14,7 @@ import type { DocumentResult, FieldResult, PageResult } from '../result/document
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
+import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
 import { buildFieldResult } from './field-result.js';
 import { readLocatedField } from './read-field.js';
@@ -35,52 +36,87 @@ export interface ExtractOptions {
 
 export interface ExtractedDocument {
   result: DocumentResult;
-  /** Decoded source pages, in which the result's boxes are given (for review crops and overlays). */
+  /** The form's decoded source pages, in which the result's boxes are given (for review crops and overlays). */
   pages: GrayImage[];
 }
 
 interface PreparedPage {
+  /** Page index in the file. */
+  index: number;
+  source: GrayImage;
   normalized: NormalizedPage;
   detections: Detection[];
+  /** Milliseconds spent normalizing and detecting this page. */
+  ms: number;
 }
 
-/** One document through every stage: decode, normalize, detect, choose layout, align, locate, read, score. */
-export async function extractDocument(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument> {
-  const started = performance.now();
+/**
+ * One file through every stage: decode, normalize, detect, choose layout, align, locate, read, score. A file holds one
+ * form, or a stack of forms scanned together (a multi-page TIFF of single-page forms): after each form's first page
+ * the layout says how many pages the form takes, and the next page starts the next form.
+ */
+export async function extractFile(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument[]> {
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
-  const { detector } = options;
   const decoded = await decodeDocument(input, options.limits ?? DEFAULT_LIMITS);
-
   const prepared: PreparedPage[] = [];
-  for (const source of decoded.pages) {
+  for (const [index, source] of decoded.pages.entries()) {
+    const started = performance.now();
     const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
-    prepared.push({ normalized, detections: await detector.detect(normalized.image) });
+    prepared.push({ index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started });
   }
+  const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : decoded.sha256.slice(0, 12));
+  const forms: ExtractedDocument[] = [];
+  for (let first = 0; first < prepared.length; ) {
+    const started = performance.now();
+    const choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
+    const count = Math.min(choice.schema.schema.pages.length, prepared.length - first);
+    const formPages = prepared.slice(first, first + count);
+    const stacked = first > 0 || first + count < prepared.length;
+    const id = stacked ? `${stem}.p${first + 1}` : stem;
+    const result = await extractForm(formPages, choice, schemas.length, {
+      ...options,
+      id,
+      source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
+      sha256: decoded.sha256,
+    });
+    result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
+    forms.push({ result, pages: formPages.map((p) => p.source) });
+    first += count;
+  }
+  return forms;
+}
 
-  const choice = await chooseLayout(schemas, prepared[0].normalized.image, prepared[0].detections);
+/** A file that holds exactly one form (the usual case): its record. */
+export async function extractDocument(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument> {
+  const forms = await extractFile(input, options);
+  return forms[0];
+}
+
+async function extractForm(
+  formPages: readonly PreparedPage[],
+  choice: LayoutChoice,
+  candidates: number,
+  options: ExtractOptions & { id: string; source: string; sha256: string },
+): Promise<DocumentResult> {
+  const { detector } = options;
   const loaded = choice.schema;
   const schema = loaded.schema;
   const typeContext = { today: options.today ?? new Date() };
   const fields: FieldResult[] = [];
   const pages: PageResult[] = [];
 
-  for (const [p, { normalized, detections }] of prepared.entries()) {
-    const reference = schema.pages[p];
-    const alignment: Alignment | null = !reference
-      ? null
-      : p === 0
-        ? choice.alignment
-        : await alignToSchemaPage(loaded, p, normalized.image, detections);
+  for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
+    const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
     pages.push({
       index: p,
-      width: decoded.pages[p].width,
-      height: decoded.pages[p].height,
+      ...(index !== p ? { filePage: index } : {}),
+      width: source.width,
+      height: source.height,
       rotation: normalized.rotation,
       skew: Math.round(normalized.skew * 100) / 100,
-      alignment: alignment ? alignmentRecord(alignment) : null,
+      alignment: alignmentRecord(alignment),
       detections: detections.length,
     });
-    if (!alignment) continue; // a page the schema does not describe
     const toSource = invertAffine(normalized.transform);
     const pageFields = schema.fields.filter((f) => f.page === p);
     for (const lf of locateFields(pageFields, detections, alignment.refToPage)) {
@@ -101,7 +137,8 @@ export async function extractDocument(input: string | Buffer, options: ExtractOp
     }
   }
 
-  for (const f of schema.fields.filter((x) => x.page >= decoded.pages.length)) {
+  // Fields on pages the file does not have (a form cut short).
+  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) {
     fields.push({
       name: f.name,
       type: f.type,
@@ -119,21 +156,18 @@ export async function extractDocument(input: string | Buffer, options: ExtractOp
   const order = new Map(schema.fields.map((f, i) => [f.name, i]));
   fields.sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
 
-  const source = typeof input === 'string' ? path.resolve(input) : '<buffer>';
-  const id = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : decoded.sha256.slice(0, 12));
-  const result: DocumentResult = {
+  return {
     format: RESULT_FORMAT,
-    document: { id, path: source, sha256: decoded.sha256 },
+    document: { id: options.id, path: options.source, sha256: options.sha256 },
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
-    ...(schemas.length > 1
+    ...(candidates > 1
       ? { layout: { status: choice.status, score: Math.round(choice.alignment.score * 1000) / 1000, candidates: choice.candidates } }
       : {}),
     createdAt: new Date().toISOString(),
     pages,
     fields,
     counts: countStatuses(fields),
-    seconds: Math.round(performance.now() - started) / 1000,
+    seconds: 0,
   };
-  return { result, pages: decoded.pages };
 }

@@ -51,7 +51,10 @@ export const FieldResult = z.object({
 export type FieldResult = z.infer<typeof FieldResult>;
 
 export const PageResult = z.object({
+  /** Page of the form (0-based), as the schema numbers them. */
   index: z.number().int().min(0),
+  /** Page of the file it came from, when the file holds several forms. */
+  filePage: z.number().int().min(0).optional(),
   width: z.number().int(),
   height: z.number().int(),
   /** Clockwise rotation in degrees (0, 90, 180, 270) applied to make the page upright. */
