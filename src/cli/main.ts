@@ -9,6 +9,7 @@ import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
 import { registerReviewCommand } from './review.js';
 import { registerExportCommand } from './export.js';
+import { registerOverlayCommand } from './overlay.js';
 
 const program = new Command();
 program
@@ -27,6 +28,7 @@ registerDetectorCommand(program);
 registerSamplesCommand(program);
 registerReviewCommand(program);
 registerExportCommand(program);
+registerOverlayCommand(program);
 
 async function main(): Promise<void> {
   try {

@@ -1,0 +1,80 @@
+import sharp from 'sharp';
+import { useBundledFonts } from '../synth/fonts.js';
+import type { Box } from './geometry.js';
+import type { GrayImage } from './raster.js';
+
+/**
+ * Boxes and captions drawn over a page image, to check by eye what was found where (results, drafted schemas).
+ * Rendered as one SVG layer composited by sharp onto the page turned to colour.
+ */
+
+export interface OverlayItem {
+  box: Box;
+  /** CSS colour of the frame and caption. */
+  colour: string;
+  caption: string;
+  /** Dashed frame: a box that came from a fallback (schema region) rather than a detection. */
+  dashed?: boolean;
+}
+
+export interface LegendEntry {
+  colour: string;
+  text: string;
+}
+
+function escapeXml(s: string): string {
+  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+/** The overlay layer as SVG text (exported for tests and for callers that composite it themselves). */
+export function overlaySvg(width: number, height: number, items: readonly OverlayItem[], legend: readonly LegendEntry[] = []): string {
+  // Sizes follow the page: a 1700-px-wide page (letter at 200 dpi) gets 3-px frames and 22-px captions.
+  const k = Math.max(0.5, width / 1700);
+  const stroke = Math.max(1.5, 3 * k);
+  const font = Math.round(22 * k);
+  const pad = Math.round(4 * k);
+  const parts: string[] = [];
+  for (const it of items) {
+    const { x, y, w, h } = it.box;
+    const dash = it.dashed ? ` stroke-dasharray="${(4 * stroke).toFixed(1)} ${(2 * stroke).toFixed(1)}"` : '';
+    parts.push(
+      `<rect x="${x.toFixed(1)}" y="${y.toFixed(1)}" width="${w.toFixed(1)}" height="${h.toFixed(1)}" fill="none" stroke="${it.colour}" stroke-width="${stroke.toFixed(1)}"${dash}/>`,
+    );
+    // Caption above the box, or inside its top edge when the box touches the top of the page.
+    const ty = y - pad - font * 0.25 >= font ? y - pad - font * 0.25 : y + font + pad;
+    // Width estimate for the backing plate: DejaVu Sans averages about 0.6 em per character (from memory).
+    const tw = 0.6 * font * it.caption.length + 2 * pad;
+    parts.push(
+      `<rect x="${x.toFixed(1)}" y="${(ty - font).toFixed(1)}" width="${tw.toFixed(1)}" height="${(font * 1.25).toFixed(1)}" fill="#ffffff" fill-opacity="0.8"/>`,
+      `<text x="${(x + pad).toFixed(1)}" y="${ty.toFixed(1)}" font-family="DejaVu Sans" font-size="${font}" fill="${it.colour}">${escapeXml(it.caption)}</text>`,
+    );
+  }
+  if (legend.length > 0) {
+    const lw = Math.max(...legend.map((l) => l.text.length)) * 0.6 * font + 4 * font;
+    const lx = width - lw - 2 * font;
+    parts.push(
+      `<rect x="${lx.toFixed(1)}" y="${font}" width="${lw.toFixed(1)}" height="${(legend.length * 1.4 * font + font).toFixed(1)}" fill="#ffffff" fill-opacity="0.9" stroke="#404040"/>`,
+    );
+    legend.forEach((l, i) => {
+      const ly = font * 2.2 + i * 1.4 * font;
+      parts.push(
+        `<rect x="${(lx + font * 0.6).toFixed(1)}" y="${(ly - font * 0.8).toFixed(1)}" width="${font}" height="${font}" fill="none" stroke="${l.colour}" stroke-width="${stroke.toFixed(1)}"/>`,
+        `<text x="${(lx + font * 2.2).toFixed(1)}" y="${ly.toFixed(1)}" font-family="DejaVu Sans" font-size="${font}" fill="#202020">${escapeXml(l.text)}</text>`,
+      );
+    });
+  }
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}">${parts.join('')}</svg>`;
+}
+
+/** The page in colour with the overlay drawn on it, as PNG bytes. */
+export async function renderOverlay(page: GrayImage, items: readonly OverlayItem[], legend: readonly LegendEntry[] = []): Promise<Buffer> {
+  useBundledFonts();
+  const svg = Buffer.from(overlaySvg(page.width, page.height, items, legend));
+  return sharp(Buffer.from(page.data.buffer, page.data.byteOffset, page.data.byteLength), {
+    raw: { width: page.width, height: page.height, channels: 1 },
+  })
+    .toColourspace('srgb')
+    .composite([{ input: svg, top: 0, left: 0 }])
+    .png()
+    .toBuffer();
+}
