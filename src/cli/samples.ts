@@ -1,9 +1,10 @@
 import type { Command } from 'commander';
 import { configError } from '../errors.js';
+import { writeDemoSchema } from '../synth/demo-assets.js';
 import { generateSamples } from '../synth/generate.js';
 import type { PageFormat } from '../synth/encode-page.js';
 import type { FillMode } from '../synth/fill.js';
-import { isLayoutName, LAYOUT_NAMES } from '../synth/layouts.js';
+import { isDemoLayout, isLayoutName, LAYOUT_NAMES } from '../synth/layouts.js';
 import type { DegradeLevel } from '../synth/scan-params.js';
 import type { StyleSelection } from '../synth/style-families.js';
 
@@ -18,6 +19,7 @@ interface GenerateFlags {
   styles: string;
   format: string;
   upsideDown: string;
+  blank?: boolean;
 }
 
 function oneOf<T extends string>(flag: string, value: string, allowed: readonly T[]): T {
@@ -47,8 +49,14 @@ export function registerSamplesCommand(program: Command): void {
     .option('--styles <set>', 'random layouts: train | heldout | all style families', 'train')
     .option('--format <fmt>', 'png | jpeg | tiff', 'png')
     .option('--upside-down <rate>', 'share of pages fed upside down when degrading', '0.03')
+    .option('--blank', 'also write the blank reference <layout>.blank.png and its schema <layout>.yaml (demo layouts)')
     .action(async (flags: GenerateFlags) => {
       if (!isLayoutName(flags.layout)) throw configError(undefined, `--layout must be one of ${LAYOUT_NAMES.join(', ')}; got "${flags.layout}"`);
+      if (flags.blank) {
+        if (!isDemoLayout(flags.layout)) throw configError(undefined, '--blank needs a demo layout: random layouts change with every page (use --fill blank)');
+        const r = await writeDemoSchema(flags.layout, flags.out);
+        process.stdout.write(`wrote ${r.blank} and ${r.schema}\n`);
+      }
       const rate = Number(flags.upsideDown);
       if (!(rate >= 0 && rate <= 1)) throw configError(undefined, `--upside-down must be a share from 0 to 1; got "${flags.upsideDown}"`);
       const summary = await generateSamples(

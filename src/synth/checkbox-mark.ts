@@ -1,8 +1,7 @@
-import sharp from 'sharp';
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
-import { fromRawBuffer } from '../page/raster.js';
 import { Rng } from './prng.js';
+import { rasterizeSvg } from './rasterize.js';
 import { gray, n, smoothPath, svgDocument } from './svg.js';
 
 /** How a person marked (or did not mark) a box. `dot` is a stray pen touch: the box still counts as unchecked. */
@@ -90,6 +89,5 @@ export async function renderCheckbox(d: CheckboxDrawing): Promise<{ image: GrayI
   const box = { x: pad, y: pad, w: d.size, h: d.size };
   const stroke = d.stroke ?? Math.max(2, Math.round(d.size / 14));
   const body = checkboxOutlineSvg(box, d.shape, stroke) + checkboxMarkSvg(box, d.shape, d.mark, new Rng(d.seed));
-  const { data, info } = await sharp(Buffer.from(svgDocument(side, side, body))).grayscale().raw().toBuffer({ resolveWithObject: true });
-  return { image: fromRawBuffer(data, info.width, info.height, info.channels), box };
+  return { image: await rasterizeSvg(svgDocument(side, side, body)), box };
 }

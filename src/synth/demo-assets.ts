@@ -1,7 +1,8 @@
 import path from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
-import { grayToPng } from '../page/raster.js';
+import { encodePage } from './encode-page.js';
 import { demoLayout, type DemoLayoutName } from './layouts.js';
+import { REFERENCE_DPI } from './layout-model.js';
 import { renderBlank } from './render-page.js';
 import { schemaFromLayout } from './schema-from-layout.js';
 import { schemaYaml } from './schema-yaml.js';
@@ -13,6 +14,6 @@ export async function writeDemoSchema(name: DemoLayoutName, dir: string): Promis
   const blank = path.join(dir, `${name}.blank.png`);
   const header = `# ${layout.title}: invented demo form. Written by \`npm run samples:make\` from src/synth/demo/${name}.ts.\n`;
   await writeFileAtomic(schema, header + schemaYaml(schemaFromLayout(layout)));
-  await writeFileAtomic(blank, await grayToPng(await renderBlank(layout)));
+  await writeFileAtomic(blank, await encodePage(await renderBlank(layout), 'png', REFERENCE_DPI, 85, true));
   return { schema, blank };
 }

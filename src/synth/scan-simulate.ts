@@ -79,13 +79,15 @@ export function addScanNoise(img: GrayImage, p: ScanParams, rng: Rng): void {
 export async function simulateScan(page: GrayImage, p: ScanParams, rng: Rng): Promise<GrayImage> {
   let img = warpGray(page, p.transform, p.width, p.height);
   if (p.blurSigma >= 0.3) {
-    const { data, info } = await sharpFromGray(img).blur(p.blurSigma).raw().toBuffer({ resolveWithObject: true });
+    const { data, info } = await sharpFromGray(img).blur(p.blurSigma).toColourspace('b-w').raw().toBuffer({ resolveWithObject: true });
     img = fromRawBuffer(data, info.width, info.height, info.channels);
   }
   if (p.noiseSigma > 0 || p.saltPepper > 0 || p.paper < 255 || p.shading.some((g) => g !== 1)) addScanNoise(img, p, rng);
   if (p.jpegQuality !== null) {
-    const jpeg = await sharpFromGray(img).jpeg({ quality: p.jpegQuality }).toBuffer();
-    const { data, info } = await sharp(jpeg).grayscale().raw().toBuffer({ resolveWithObject: true });
+    // One gray channel each way (sharp defaults to sRGB output); Huffman optimisation off: it changes only the
+    // size, not the pixels, and costs more than the encoding itself.
+    const jpeg = await sharpFromGray(img).toColourspace('b-w').jpeg({ quality: p.jpegQuality, optimiseCoding: false }).toBuffer();
+    const { data, info } = await sharp(jpeg).toColourspace('b-w').raw().toBuffer({ resolveWithObject: true });
     img = fromRawBuffer(data, info.width, info.height, info.channels);
   }
   return img;
