@@ -1,0 +1,54 @@
+import type { Affine, Point } from '../../src/page/geometry.js';
+import { applyAffine, composeAffine, invertAffine } from '../../src/page/geometry.js';
+import { normalizePage } from '../../src/page/normalize.js';
+import type { GrayImage } from '../../src/page/raster.js';
+import type { DocumentResult } from '../../src/result/document.js';
+import type { LoadedSchema } from '../../src/schema/load.js';
+import { fieldRegions } from '../../src/schema/consistency.js';
+import { applyH, type Homography } from '../../src/synth/homography.js';
+
+/**
+ * How far the tool's page alignment puts the schema's regions from where the simulated scan really moved them:
+ * every corner of every region of page 0, carried (a) by the transform the result reports, composed with the page
+ * normalization that extract applied before it, and (b) by the scan's true reference→page homography. Distances are
+ * in source-page pixels.
+ */
+export interface AlignmentError {
+  /** Largest corner distance over all regions. */
+  max: number;
+  /** Mean corner distance. */
+  mean: number;
+  corners: number;
+}
+
+/**
+ * Reference → source-page transform of a result's first page. The result stores the page→reference alignment on the
+ * normalized (upright, deskewed) page; normalization is a pure function of the decoded page, so running it again
+ * gives the same normalized→source map extract used.
+ */
+export function referenceToSource(result: DocumentResult, source: GrayImage): Affine | null {
+  const a = result.pages[0]?.alignment;
+  if (!a) return null;
+  const normalized = normalizePage(source, { deskew: true, orientation: true });
+  const refToNormalized = invertAffine(a.transform);
+  return composeAffine(invertAffine(normalized.transform), refToNormalized);
+}
+
+function corners(r: readonly [number, number, number, number]): Point[] {
+  const [x, y, w, h] = r;
+  return [[x, y], [x + w, y], [x, y + h], [x + w, y + h]];
+}
+
+export function alignmentError(loaded: LoadedSchema, refToSource: Affine, truth: Homography): AlignmentError {
+  const d: number[] = [];
+  for (const field of loaded.schema.fields.filter((f) => f.page === 0)) {
+    for (const { region } of fieldRegions(field)) {
+      for (const p of corners(region)) {
+        const [ex, ey] = applyAffine(refToSource, p);
+        const [tx, ty] = applyH(truth, p[0], p[1]);
+        d.push(Math.hypot(ex - tx, ey - ty));
+      }
+    }
+  }
+  return { max: Math.max(...d), mean: d.reduce((s, v) => s + v, 0) / d.length, corners: d.length };
+}
