@@ -162,7 +162,7 @@ async function extractForm(
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
     ...(candidates > 1
-      ? { layout: { status: choice.status, score: Math.round(choice.alignment.score * 1000) / 1000, candidates: choice.candidates } }
+      ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates } }
       : {}),
     createdAt: new Date().toISOString(),
     pages,
