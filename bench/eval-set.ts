@@ -9,7 +9,7 @@
  *  4. calibrate review thresholds on the even-numbered pages of each layout and measure them on the odd ones
  *     (out/eval/calibrated/<layout>.yaml), then print the measured figures next to the targets.
  *
- * Options: --count N pages per layout and fill (default 24), --layouts a,b, --fills typed,handwriting,
+ * Options: --count N pages per layout and fill (default 20), --generate-only (prepare the set, stop), --layouts a,b, --fills typed,handwriting,
  * --degrade none|light|heavy, --model FILE, --target-error 0.005, --out DIR, --per-field.
  */
 import { readdir, readFile } from 'node:fs/promises';
@@ -45,7 +45,8 @@ const EVAL_SEEDS: Record<(typeof LAYOUTS)[number], Record<(typeof FILLS)[number]
 
 const { values: args } = parseArgs({
   options: {
-    count: { type: 'string', default: '24' },
+    count: { type: 'string', default: '20' },
+    'generate-only': { type: 'boolean', default: false },
     layouts: { type: 'string', default: LAYOUTS.join(',') },
     fills: { type: 'string', default: FILLS.join(',') },
     degrade: { type: 'string', default: 'light' },
@@ -105,6 +106,8 @@ for (const layout of layouts) {
     say(`generated ${g.pages} ${layout} ${fill} pages (seed ${seed}) in ${g.seconds.toFixed(1)} s`);
   }
 }
+
+if (args['generate-only']) process.exit(0);
 
 // 2. extract, one batch per layout (each has its own schema)
 const detector = await loadDetector(args.model!);
