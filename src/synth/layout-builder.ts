@@ -274,8 +274,13 @@ export class LayoutBuilder {
   private entrySlot(item: ItemSpec, area: Box, placement: StyleFamily['labels']): EntrySlot {
     const stroke = this.m.stroke;
     if (item.type === 'signature') {
+      if (placement === 'cell') {
+        // As for text cells, the area is the whole ruled cell.
+        const lh = this.labelHeight();
+        const cell = { x: area.x - 8, y: area.y - lh, w: area.w + 16, h: area.h + lh + 4 };
+        return { key: item.name, class: 'signature_area', box: cell, writeBox: area, look: { kind: 'cell', labelHeight: lh } };
+      }
       const look: EntryLook = { kind: 'signature', stroke, marker: this.rng.chance(0.5) };
-      if (placement === 'cell') return { key: item.name, class: 'signature_area', box: area, writeBox: area, look: { kind: 'cell', labelHeight: 0 } };
       return { key: item.name, class: 'signature_area', box: area, writeBox: inset(area, 4), look };
     }
     if (item.entry === 'comb') {
@@ -313,7 +318,8 @@ export class LayoutBuilder {
 
   /** Lay out checkbox boxes with their labels left to right, wrapping; returns the slots or null if out of room. */
   private checkboxRun(entries: { key: string; label: string }[], startX: number, shape: 'square' | 'round'): { slots: EntrySlot[]; height: number } | null {
-    const s = this.m.checkbox;
+    // Box size varies a little between groups on one form, as forms are assembled from parts.
+    const s = Math.max(22, this.m.checkbox + this.rng.int(-6, 6));
     const L = this.m.labelSize;
     const lineH = Math.max(s, L) + 14;
     let x = startX;
