@@ -10,7 +10,8 @@ import { renderPage } from '../../src/synth/render-page.js';
 const require = createRequire(import.meta.url);
 const langPath = path.join(path.dirname(require.resolve('@tesseract.js-data/eng/package.json')), '4.0.0_best_int');
 const worker = await createWorker('eng', OEM.LSTM_ONLY, { langPath, cacheMethod: 'none', gzip: true });
-await worker.setParameters({ tessedit_pageseg_mode: PSM.SINGLE_LINE });
+// Crops carry no resolution; a fixed one stops tesseract guessing (and warning) per crop.
+await worker.setParameters({ tessedit_pageseg_mode: PSM.SINGLE_LINE, user_defined_dpi: '300' });
 
 afterAll(async () => {
   await worker.terminate();
