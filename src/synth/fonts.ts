@@ -1,4 +1,5 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
 import path from 'node:path';
@@ -42,15 +43,17 @@ function escapeXml(s: string): string {
 let configured: string | undefined;
 
 /**
- * Write a fonts.conf listing only the npm font folders into a fresh temp folder and point FONTCONFIG_FILE at it.
- * Idempotent within a process; returns the config path.
+ * Write a fonts.conf listing only the npm font folders and point FONTCONFIG_FILE at it. The file sits in a temp
+ * folder named by a hash of its content, so processes share it and fontconfig's cache beside it (fonts are scanned
+ * once, not per process). Idempotent within a process; returns the config path.
  */
 export function useBundledFonts(): string {
   if (configured) return configured;
-  const dir = mkdtempSync(path.join(os.tmpdir(), 'formglean-fonts-'));
   const dirs = fontFolders()
     .map((d) => `  <dir>${escapeXml(d)}</dir>`)
     .join('\n');
+  const key = createHash('sha256').update(dirs).digest('hex').slice(0, 16);
+  const dir = path.join(os.tmpdir(), `formglean-fonts-${key}`);
   const conf = `<?xml version="1.0"?>
 <!DOCTYPE fontconfig SYSTEM "fonts.dtd">
 <fontconfig>
@@ -59,7 +62,19 @@ ${dirs}
 </fontconfig>
 `;
   const file = path.join(dir, 'fonts.conf');
-  writeFileSync(file, conf);
+  let current: string | undefined;
+  try {
+    current = readFileSync(file, 'utf8');
+  } catch {
+    current = undefined;
+  }
+  if (current !== conf) {
+    // Written under a unique name and renamed, so a process reading it never sees half a file.
+    mkdirSync(dir, { recursive: true });
+    const tmp = `${file}.${process.pid}.tmp`;
+    writeFileSync(tmp, conf);
+    renameSync(tmp, file);
+  }
   process.env.FONTCONFIG_FILE = file;
   configured = file;
   return file;
