@@ -40,6 +40,7 @@ export function overlaySvg(width: number, height: number, items: readonly Overla
     parts.push(
       `<rect x="${x.toFixed(1)}" y="${y.toFixed(1)}" width="${w.toFixed(1)}" height="${h.toFixed(1)}" fill="none" stroke="${it.colour}" stroke-width="${stroke.toFixed(1)}"${dash}/>`,
     );
+    if (it.caption === '') continue;
     // Caption above the box, or inside its top edge when the box touches the top of the page.
     const ty = y - pad - font * 0.25 >= font ? y - pad - font * 0.25 : y + font + pad;
     // Width estimate for the backing plate: DejaVu Sans averages about 0.6 em per character (from memory).

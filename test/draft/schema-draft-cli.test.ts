@@ -1,0 +1,43 @@
+import { existsSync, mkdtempSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { Command } from 'commander';
+import sharp from 'sharp';
+import { describe, expect, it } from 'vitest';
+import { addDraftSubcommand } from '../../src/cli/schema-draft.js';
+import { iou } from '../../src/page/geometry.js';
+import { loadSchema, referenceImagePath } from '../../src/schema/load.js';
+
+async function run(args: string[]): Promise<void> {
+  const program = new Command().exitOverride();
+  addDraftSubcommand(program.command('schema'));
+  await program.parseAsync(['node', 'formglean', 'schema', 'draft', ...args]);
+}
+
+describe('formglean schema draft (real onnxruntime with a fixture model)', () => {
+  // square-scores.onnx (test/fixtures/models) reports the bounding box of the page's ink as a checkbox (0.9) and,
+  // shifted 2 model pixels, as a text entry (0.5): a detector with a known answer.
+  it('writes a valid schema naming the blank as its reference, and an overlay', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'draft-'));
+    const blank = path.join(dir, 'blank.png');
+    const square = Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="960" height="640"><rect x="0" y="0" width="960" height="640" fill="#fff"/><rect x="305" y="205" width="110" height="110" fill="none" stroke="#000" stroke-width="10"/></svg>');
+    await sharp(square).grayscale().png().toFile(blank);
+    const out = path.join(dir, 'drafts', 'form.yaml');
+    await run([blank, '--out', out, '--model', 'test/fixtures/models/square-scores.onnx', '--name', 'square-form']);
+    const loaded = await loadSchema(out);
+    expect(loaded.schema.form.name).toBe('square-form');
+    expect(referenceImagePath(loaded, 0)).toBe(blank);
+    expect(loaded.schema.pages[0]).toMatchObject({ width: 960, height: 640 });
+    const box = loaded.schema.fields.find((f) => f.class === 'checkbox');
+    expect(box?.type).toBe('checkbox');
+    const [x, y, w, h] = box!.region!;
+    // The model sees the page at a tenth of its size: a model pixel is 10 page pixels.
+    expect(iou({ x, y, w, h }, { x: 300, y: 200, w: 120, h: 120 })).toBeGreaterThan(0.7);
+    expect(existsSync(path.join(dir, 'drafts', 'form.overlay.png'))).toBe(true);
+  });
+
+  it('fails in one line naming a missing blank form', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'draft-'));
+    await expect(run([path.join(dir, 'nope.png'), '--out', path.join(dir, 'x.yaml'), '--model', 'test/fixtures/models/square-scores.onnx'])).rejects.toThrow(/nope\.png: file not found/);
+  });
+});
