@@ -6,6 +6,8 @@
  *  (a) detection: per-class AP@0.5 and recall at the operating threshold on the filled pages, and on the blank itself;
  *  (b) extraction with the hand-labelled schema: field location recall (IoU >= 0.5), alignment error of the schema's
  *      regions against the scan's true transform, exact match of read values per type (src/eval/score.ts);
+ *  (c) schema drafting on the blank (src/schema/draft.ts with the detector and OCR reading labels): share of the
+ *      labelled entry areas the drafted schema covers at IoU >= 0.5.
  * These figures describe a layout no generator drew; report them apart from the synthetic ones.
  *
  * Options: --count N (default 6), --seed S (>= 900000, default 900000), --degrade none|light|heavy (default light),
@@ -23,6 +25,7 @@ import { formatDetectorEval } from '../src/eval/detection-table.js';
 import { loadTruth, type TruthDocument } from '../src/eval/score-input.js';
 import { formatRows, formatScore } from '../src/eval/score-table.js';
 import { scoreAll } from '../src/eval/score.js';
+import { oneLine } from '../src/errors.js';
 import { decodeDocument } from '../src/input/decode.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
@@ -31,6 +34,7 @@ import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
 import type { DocumentResult } from '../src/result/document.js';
 import type { DegradeLevel } from '../src/synth/scan-params.js';
 import { alignmentError, referenceToSource, type AlignmentError } from '../test/real-form/alignment-error.js';
+import { draftCoverage, type DraftCoverage } from '../test/real-form/draft-coverage.js';
 import { writeW4Set } from '../test/real-form/fill.js';
 import { loadW4Schema, REPO_ROOT, W4_BLANK_COCO } from '../test/real-form/w4-layout.js';
 
@@ -112,6 +116,19 @@ async function main(): Promise<void> {
     const alignRows = alignment.map((a) => [a.stem, a.method, a.mean.toFixed(2), a.max.toFixed(2)]);
     process.stdout.write(`alignment error of the schema regions (corner distance to the true scan transform, source pixels)\n${formatRows(['page', 'method', 'mean px', 'max px'], alignRows)}\n\n`);
 
+    // (c) drafting on the blank.
+    let draft: DraftCoverage | { error: string };
+    try {
+      draft = await draftCoverage(loaded, detector);
+      process.stdout.write(
+        `(c) drafting on the blank: ${draft.covered}/${draft.labelled} labelled entry areas covered at IoU >= 0.5 ` +
+          `(${pct(draft.coverage)}; ${draft.coveredSameClass} with the same class); the draft holds ${draft.drafted} areas\n`,
+      );
+    } catch (err) {
+      draft = { error: oneLine(err) };
+      process.stdout.write(`(c) drafting on the blank failed: ${draft.error}\n`);
+    }
+
     const summary = {
       createdAt: new Date().toISOString(),
       layout: loaded.schema.form.name,
@@ -123,6 +140,7 @@ async function main(): Promise<void> {
       detection: { filled: detectionSummary(filledEval), blank: detectionSummary(blankEval), meanAp50Filled: filledEval.mean.ap50 },
       extraction: { overall: report.overall, byType: report.byType, byFill: report.byFill },
       alignment,
+      drafting: draft,
     };
     await writeJsonAtomic(path.join(outDir, 'real-form-report.json'), summary);
     const worst = alignment.length ? Math.max(...alignment.map((a) => a.max)) : null;
