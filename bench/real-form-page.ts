@@ -15,7 +15,7 @@ import { applyAffine, composeAffine, invertAffine } from '../src/page/geometry.j
 import { normalizePage } from '../src/page/normalize.js';
 import { fromRawBuffer } from '../src/page/raster.js';
 import { rotationAbout, warpGray } from '../src/page/warp.js';
-import { entriesOnly, filledRealForm, scanLike } from '../test/page/fill-real-form.js';
+import { entriesOnly, filledRealForm, inkRecovery, scanLike } from '../test/page/fill-real-form.js';
 import { realBlank } from '../test/page/real-form.js';
 
 const CASES: Array<{ s: number; dx: number; dy: number; angle: number; blur: number; jpeg: number }> = [
@@ -75,24 +75,9 @@ for (const c of CASES) {
   const back = invertAffine(truthRefToNorm);
   const ent = warpGray(entries, back, n.image.width, n.image.height);
   const blank = warpGray(ref, back, n.image.width, n.image.height);
-  let formInk = 0;
-  let formLeft = 0;
-  let entryInk = 0;
-  let entryKept = 0;
-  for (let i = 0; i < d.image.data.length; i++) {
-    const isEntry = ent.data[i] < 128;
-    const ink = d.image.data[i] < 128;
-    if (blank.data[i] < 128 && !isEntry) {
-      formInk++;
-      if (ink) formLeft++;
-    }
-    if (isEntry) {
-      entryInk++;
-      if (ink) entryKept++;
-    }
-  }
-  removed.push(1 - formLeft / formInk);
-  kept.push(entryKept / entryInk);
+  const r = inkRecovery(d.image, blank, ent);
+  removed.push(r.removed);
+  kept.push(r.kept);
   rows.push(
     `scale ${c.s} shift (${c.dx},${c.dy}) angle ${c.angle} blur ${c.blur} jpeg ${c.jpeg || '-'}: rotation ${ok ? 'right' : `WRONG (${n.rotation})`} (text cue alone ${byText.rotation === upside ? 'right' : 'wrong'}), ` +
       `skew err ${skewErr.at(-1)!.toFixed(3)}°, align err ${err.toFixed(2)} px (score ${a.score.toFixed(3)}), ` +

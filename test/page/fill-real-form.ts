@@ -93,3 +93,27 @@ export async function scanLike(png: Buffer, s: number, left: number, top: number
     refToPage: { a: sx, b: 0, c: margin + left, d: 0, e: sy, f: margin + top },
   };
 }
+
+/**
+ * How well a dropped-out page matches the truth: the share of printed-form ink (truth blank on the page, minus
+ * entry pixels) turned to paper, and the share of entry ink still ink. All three rasters share the page's frame.
+ */
+export function inkRecovery(dropped: GrayImage, blankOnPage: GrayImage, entriesOnPage: GrayImage): { removed: number; kept: number } {
+  let formInk = 0;
+  let formLeft = 0;
+  let entryInk = 0;
+  let entryKept = 0;
+  for (let i = 0; i < dropped.data.length; i++) {
+    const isEntry = entriesOnPage.data[i] < 128;
+    const ink = dropped.data[i] < 128;
+    if (blankOnPage.data[i] < 128 && !isEntry) {
+      formInk++;
+      if (ink) formLeft++;
+    }
+    if (isEntry) {
+      entryInk++;
+      if (ink) entryKept++;
+    }
+  }
+  return { removed: 1 - formLeft / Math.max(1, formInk), kept: entryKept / Math.max(1, entryInk) };
+}
