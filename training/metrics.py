@@ -12,17 +12,19 @@ from __future__ import annotations
 import numpy as np
 
 
-def iou_matrix(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    """IoU of every box in a [n, 4] with every box in b [m, 4] (x1 y1 x2 y2)."""
+def iou_matrix(a: np.ndarray, b: np.ndarray, inclusive: bool = False) -> np.ndarray:
+    """IoU of every box in a [n, 4] with every box in b [m, 4] (x1 y1 x2 y2). inclusive=True counts pixels as the
+    PASCAL VOC devkit does (a box x1..x2 covers x2 - x1 + 1 pixels); only the published worked example needs it."""
+    one = 1.0 if inclusive else 0.0
     if len(a) == 0 or len(b) == 0:
         return np.zeros((len(a), len(b)), dtype=np.float64)
     ix1 = np.maximum(a[:, None, 0], b[None, :, 0])
     iy1 = np.maximum(a[:, None, 1], b[None, :, 1])
     ix2 = np.minimum(a[:, None, 2], b[None, :, 2])
     iy2 = np.minimum(a[:, None, 3], b[None, :, 3])
-    inter = np.clip(ix2 - ix1, 0, None) * np.clip(iy2 - iy1, 0, None)
-    area_a = (a[:, 2] - a[:, 0]) * (a[:, 3] - a[:, 1])
-    area_b = (b[:, 2] - b[:, 0]) * (b[:, 3] - b[:, 1])
+    inter = np.clip(ix2 - ix1 + one, 0, None) * np.clip(iy2 - iy1 + one, 0, None)
+    area_a = (a[:, 2] - a[:, 0] + one) * (a[:, 3] - a[:, 1] + one)
+    area_b = (b[:, 2] - b[:, 0] + one) * (b[:, 3] - b[:, 1] + one)
     return inter / np.maximum(area_a[:, None] + area_b[None, :] - inter, 1e-9)
 
 
@@ -40,7 +42,7 @@ def non_max_suppression(boxes: np.ndarray, scores: np.ndarray, iou_threshold: fl
     return np.array(keep, dtype=np.int64)
 
 
-def match(dets: list[tuple[int, float, np.ndarray]], gts: dict[int, np.ndarray], iou_threshold: float):
+def match(dets: list[tuple[int, float, np.ndarray]], gts: dict[int, np.ndarray], iou_threshold: float, inclusive: bool = False):
     """dets: (image, score, box) of one class; gts: image -> [m, 4]. Returns (scores, tp flags) sorted
     by descending score, and the number of ground-truth boxes."""
     order = sorted(range(len(dets)), key=lambda k: -dets[k][1])
@@ -52,7 +54,7 @@ def match(dets: list[tuple[int, float, np.ndarray]], gts: dict[int, np.ndarray],
         g = gts.get(img)
         if g is None or len(g) == 0:
             continue
-        ious = iou_matrix(box[None, :], g)[0]
+        ious = iou_matrix(box[None, :], g, inclusive)[0]
         ious[used[img]] = -1.0
         best = int(np.argmax(ious))
         if ious[best] >= iou_threshold:
@@ -63,7 +65,7 @@ def match(dets: list[tuple[int, float, np.ndarray]], gts: dict[int, np.ndarray],
 
 
 def average_precision(tp: np.ndarray, total: int, points: int | None = None) -> float:
-    """AP from tp flags in descending score order. points=None: all-point; points=101: COCO."""
+    """AP from tp flags in descending score order. points=None: all-point; 101: COCO; 11: VOC 2007."""
     if total == 0:
         return float("nan")
     if len(tp) == 0:
