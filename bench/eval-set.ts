@@ -118,7 +118,7 @@ try {
     const schema = await loadSchema(path.join('schemas', `${layout}.yaml`));
     const report = await runBatch({
       inputs: fills.map((f) => path.join(samplesDir, `${layout}-${f}`)),
-      schema,
+      schemas: [schema],
       detector,
       outDir: path.join(resultsDir, layout),
       resume: true,
