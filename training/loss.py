@@ -7,6 +7,10 @@ still poor. The loss is binary cross-entropy weighted by |score - target|^2, whi
 easy background cells fade out (the focal idea: Lin et al. 2017, "Focal Loss for Dense Object
 Detection"; the soft IoU target follows Li et al. 2020, "Generalized Focal Loss").
 Box loss: 1 - GIoU (Rezatofighi et al. 2019, "Generalized Intersection over Union").
+
+Box balance (optional): a long field owns up to 8 x 8 cells and a checkbox 4..9, so per cell the loss is mostly
+about long fields. With balance on, a positive cell weighs 1 / sqrt(cells its box owns), rescaled so that the
+mean positive weight stays 1: small boxes count for more without changing the loss scale.
 """
 
 from __future__ import annotations
@@ -39,9 +43,15 @@ def box_iou_giou(pred: torch.Tensor, target: torch.Tensor) -> tuple[torch.Tensor
     return iou, giou
 
 
-def detection_loss(logits: torch.Tensor, log_dist: torch.Tensor, cls_target: torch.Tensor, box_target: torch.Tensor):
-    """logits [B, C, gh, gw], log_dist [B, 4, gh, gw]; cls_target [B, N] (-1 background), box_target [B, N, 4].
-    Returns (total, classification, box) losses."""
+def detection_loss(
+    logits: torch.Tensor,
+    log_dist: torch.Tensor,
+    cls_target: torch.Tensor,
+    box_target: torch.Tensor,
+    box_cells: torch.Tensor | None = None,
+):
+    """logits [B, C, gh, gw], log_dist [B, 4, gh, gw]; cls_target [B, N] (-1 background), box_target [B, N, 4];
+    box_cells [B, N] (cells owned by each cell's box) turns box balance on. Returns (total, classification, box)."""
     b, c, gh, gw = logits.shape
     n = gh * gw
     logits = logits.permute(0, 2, 3, 1).reshape(b, n, c)
@@ -50,6 +60,7 @@ def detection_loss(logits: torch.Tensor, log_dist: torch.Tensor, cls_target: tor
     num_pos = max(1.0, float(positive.sum()))
 
     score_target = torch.zeros_like(logits)
+    cell_weight = torch.ones_like(logits[..., 0])
     box_loss = logits.new_zeros(())
     if positive.any():
         gx, gy = cell_centres(gh * 4, gw * 4, logits.device)
@@ -58,12 +69,17 @@ def detection_loss(logits: torch.Tensor, log_dist: torch.Tensor, cls_target: tor
         dp = d[positive]
         pred = torch.stack([gx - dp[:, 0], gy - dp[:, 1], gx + dp[:, 2], gy + dp[:, 3]], dim=1)
         iou, giou = box_iou_giou(pred, box_target[positive])
-        box_loss = (1.0 - giou).sum() / num_pos
+        pos_weight = torch.ones_like(iou)
+        if box_cells is not None:
+            pos_weight = box_cells[positive].clamp(min=1).rsqrt()
+            pos_weight = pos_weight / pos_weight.mean()
+            cell_weight[positive] = pos_weight
+        box_loss = ((1.0 - giou) * pos_weight).sum() / num_pos
         pos_idx = positive.nonzero(as_tuple=True)
         score_target[pos_idx[0], pos_idx[1], cls_target[positive]] = 0.5 + 0.5 * iou.detach().clamp(0, 1)
 
     prob = torch.sigmoid(logits)
     bce = F.binary_cross_entropy_with_logits(logits, score_target, reduction="none")
-    cls_loss = (bce * (prob - score_target).abs().pow(2)).sum() / num_pos
+    cls_loss = (bce * (prob - score_target).abs().pow(2) * cell_weight[..., None]).sum() / num_pos
     total = cls_loss + BOX_WEIGHT * box_loss
     return total, cls_loss.detach(), box_loss.detach()

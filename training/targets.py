@@ -20,11 +20,12 @@ WINDOW_MIN = 1.5 * STRIDE
 WINDOW_MAX = 4.0 * STRIDE
 
 
-def assign(boxes: np.ndarray, classes: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def assign(boxes: np.ndarray, classes: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """boxes [n, 4] x1 y1 x2 y2 (input pixels) -> (class per cell int64 [GRID_H*GRID_W], -1 = background;
-    target box per cell float32 [GRID_H*GRID_W, 4])."""
+    target box per cell float32 [GRID_H*GRID_W, 4]; cells its box holds, per cell, float32, 0 = background)."""
     cls_map = np.full((GRID_H, GRID_W), -1, dtype=np.int64)
     box_map = np.zeros((GRID_H, GRID_W, 4), dtype=np.float32)
+    owner = np.full((GRID_H, GRID_W), -1, dtype=np.int64)
     if len(boxes):
         areas = (boxes[:, 2] - boxes[:, 0]) * (boxes[:, 3] - boxes[:, 1])
         for k in np.argsort(-areas):  # largest first, so smaller boxes overwrite
@@ -45,4 +46,10 @@ def assign(boxes: np.ndarray, classes: np.ndarray) -> tuple[np.ndarray, np.ndarr
             i0, i1 = min(max(i0, 0), ic), max(min(i1, GRID_H - 1), ic)
             cls_map[i0 : i1 + 1, j0 : j1 + 1] = classes[k]
             box_map[i0 : i1 + 1, j0 : j1 + 1] = boxes[k]
-    return cls_map.reshape(-1), box_map.reshape(-1, 4)
+            owner[i0 : i1 + 1, j0 : j1 + 1] = k
+    owner = owner.reshape(-1)
+    cells = np.zeros(owner.shape, dtype=np.float32)
+    held = owner >= 0
+    if held.any():
+        cells[held] = np.bincount(owner[held], minlength=len(boxes))[owner[held]]
+    return cls_map.reshape(-1), box_map.reshape(-1, 4), cells

@@ -57,8 +57,8 @@ class PageSamples(torch.utils.data.Dataset):
         ps = self.sets[s]
         rng = np.random.default_rng([self.seed, epoch, k])
         image, boxes, classes = compose(ps.images[i], ps.boxes[i], ps.classes[i], rng)
-        cls_t, box_t = assign(boxes, classes)
-        return torch.from_numpy(image)[None], torch.from_numpy(cls_t), torch.from_numpy(box_t)
+        cls_t, box_t, cells = assign(boxes, classes)
+        return torch.from_numpy(image)[None], torch.from_numpy(cls_t), torch.from_numpy(box_t), torch.from_numpy(cells)
 
 
 class StepBatches(torch.utils.data.Sampler):
@@ -125,6 +125,7 @@ def main(argv: list[str]) -> None:
     parser.add_argument("--lr", type=float, default=3e-3)
     parser.add_argument("--weight-decay", type=float, default=5e-4)
     parser.add_argument("--width", type=int, default=24, help="base channel width of the network")
+    parser.add_argument("--box-balance", action="store_true", help="weigh positive cells by 1/sqrt(cells of their box) (loss.py)")
     parser.add_argument("--threads", type=int, default=2)
     parser.add_argument("--workers", type=int, default=1, help="data-loading processes (0 = in the main process)")
     parser.add_argument("--checkpoint-every", type=int, default=200)
@@ -198,13 +199,13 @@ def main(argv: list[str]) -> None:
     started = time.time()
     window_start, sums = time.time(), np.zeros(3)
     net.train()
-    for images, cls_t, box_t in loader:
+    for images, cls_t, box_t, cells_t in loader:
         lr = learning_rate(step, total_steps, args.lr)
         for group in optimizer.param_groups:
             group["lr"] = lr
         images = images.contiguous(memory_format=torch.channels_last)
         logits, log_dist = net(images)
-        total, cls_loss, box_loss = detection_loss(logits, log_dist, cls_t, box_t)
+        total, cls_loss, box_loss = detection_loss(logits, log_dist, cls_t, box_t, cells_t if args.box_balance else None)
         optimizer.zero_grad(set_to_none=True)
         total.backward()
         torch.nn.utils.clip_grad_norm_(net.parameters(), 10.0)
@@ -240,6 +241,8 @@ def main(argv: list[str]) -> None:
         {
             "command": " ".join(shlex.quote(a) for a in [sys.executable, *sys.argv]),
             "seed": args.seed,
+            "box_balance": args.box_balance,
+            "width": args.width,
             "data": {d: len(s.images) for d, s in zip(args.data, train_sets)},
             "val": {d: len(s.images) for d, s in zip(args.val, val_sets)},
             "epochs": args.epochs,
