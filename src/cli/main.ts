@@ -5,6 +5,7 @@ import { registerCalibrateCommand } from './calibrate.js';
 import { registerDetectorCommand } from './detector.js';
 import { registerExtractCommand } from './extract.js';
 import { registerSchemaCommand } from './schema.js';
+import { addDraftSubcommand } from './schema-draft.js';
 import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
 import { registerReviewCommand } from './review.js';
@@ -21,7 +22,7 @@ program
 
 // Commands register themselves, one file per command.
 registerExtractCommand(program);
-const schemaCommand = registerSchemaCommand(program);
+addDraftSubcommand(registerSchemaCommand(program));
 registerScoreCommand(program);
 registerCalibrateCommand(program);
 registerDetectorCommand(program);
