@@ -35,7 +35,7 @@ for (const [i, f] of files.entries()) {
   const n = normalizePage(input);
   ms += performance.now() - t0;
   if (n.rotation === expected) right++;
-  else wrong.push(`${f} expected ${expected} got ${n.rotation} (up ${n.orientation?.up} down ${n.orientation?.down})`);
+  else wrong.push(`${f} expected ${expected} got ${n.rotation} (phrase vote ${n.orientation?.upScore.toFixed(2)} over ${n.orientation?.lines} phrases)`);
   skewErr.push(Math.abs(n.skew - truth.skew));
 }
 const sorted = [...skewErr].sort((a, b) => a - b);

@@ -1,16 +1,17 @@
 import { estimateSkew } from './deskew.js';
 import type { Affine } from './geometry.js';
 import { composeAffine } from './geometry.js';
+import { glyphBoxes } from './glyphs.js';
 import type { OrientationEstimate } from './orientation.js';
-import { glyphBoxes, linesRunDown, orientationFromGlyphs } from './orientation.js';
+import { linesRunDown, orientationEstimate, textBandEvidence } from './orientation.js';
 import type { GrayImage } from './raster.js';
 import type { QuarterTurn } from './warp.js';
 import { quarterTurnAffine, rotateGray, rotateQuarter } from './warp.js';
 
 /**
  * Upright and level: the page stage before detection. Line direction first (it does not care about skew), then
- * the skew in the frame where lines run across, then up versus down on levelled glyphs, then one exact quarter
- * turn and one small resampling rotation.
+ * the skew in the frame where lines run across, then up versus down on the levelled page, then at most one exact
+ * half turn. One resampling in all.
  */
 
 export interface NormalizedPage {
@@ -42,22 +43,37 @@ export interface NormalizeOptions {
 export function normalizePage(img: GrayImage, options: NormalizeOptions = {}): NormalizedPage {
   const doOrient = options.orientation ?? true;
   const doDeskew = options.deskew ?? true;
-  const boxes = doOrient ? glyphBoxes(img) : [];
-  const sideways = doOrient && linesRunDown(boxes, img.width, img.height).sideways;
-  const across = sideways ? rotateQuarter(img, 90).image : img;
-  const est = doDeskew ? estimateSkew(across, { maxAngle: options.maxSkew }) : { angle: 0, confidence: 0 };
-  const orientation = doOrient ? orientationFromGlyphs(boxes, img.width, img.height, est.angle) : null;
-  const rotation: QuarterTurn = orientation?.rotation ?? 0;
-  // A half turn keeps line angles, so the skew measured in the "across" frame holds for either choice.
-  // The 90° turn was already made to measure the skew; reuse it rather than turning again.
-  const quarter =
-    rotation === 90 && sideways ? { image: across, transform: quarterTurnAffine(90, img.width, img.height) } : rotateQuarter(img, rotation);
-  let image = quarter.image;
-  let transform = quarter.transform;
+  const lines = doOrient ? linesRunDown(glyphBoxes(img), img.width, img.height) : { sideways: false, horizontal: 0, vertical: 0 };
+  let image = img;
+  let transform: Affine = quarterTurnAffine(0, img.width, img.height);
+  if (lines.sideways) {
+    const q = rotateQuarter(img, 90);
+    image = q.image;
+    transform = q.transform;
+  }
+  const est = doDeskew ? estimateSkew(image, { maxAngle: options.maxSkew }) : { angle: 0, confidence: 0 };
   if (Math.abs(est.angle) >= (options.minSkew ?? 0.05)) {
     const r = rotateGray(image, -est.angle);
     image = r.image;
     transform = composeAffine(r.transform, transform);
   }
+  let orientation: OrientationEstimate | null = null;
+  let rotation: QuarterTurn = lines.sideways ? 90 : 0;
+  if (doOrient) {
+    orientation = orientationEstimate(lines, textBandEvidence(image));
+    if (orientation.rotation !== rotation) {
+      // A half turn keeps line angles, so the skew measured before it still holds.
+      const h = rotateQuarter(image, 180);
+      image = h.image;
+      transform = composeAffine(h.transform, transform);
+      rotation = orientation.rotation;
+    }
+  }
   return { image, rotation, skew: est.angle, skewConfidence: est.confidence, transform, orientation };
+}
+
+/** The page's quarter-turn rotation alone (normalizes the page to read it). Pure. */
+export function detectOrientation(img: GrayImage): OrientationEstimate {
+  const n = normalizePage(img);
+  return n.orientation!;
 }

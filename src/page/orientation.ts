@@ -1,22 +1,18 @@
-import { labelComponents } from '../read/cleanup/components.js';
-import { thresholdAt } from '../read/cleanup/binary.js';
-import { estimateSkew } from './deskew.js';
-import type { Affine, Box } from './geometry.js';
-import { applyAffine, composeAffine, transformBox } from './geometry.js';
+import type { Box } from './geometry.js';
 import { inkThreshold } from './ink.js';
 import type { GrayImage } from './raster.js';
+import { findPhrases } from './text-phrases.js';
 import type { QuarterTurn } from './warp.js';
-import { quarterTurnAffine, rotateQuarter, rotationAbout } from './warp.js';
 
 /**
  * Page orientation from the printed text itself, in two steps:
  * 1. Line direction: the nearest neighbour of a character is, far more often than not, the next character on the
  *    same line (the "docstrum" of O'Gorman, "The document spectrum for page layout analysis", IEEE PAMI 15(11),
  *    1993). Mostly horizontal neighbour links mean 0 or 180 degrees; mostly vertical ones mean 90 or 270.
- * 2. Up versus down: Latin lower case has many more ascenders (b d f h k l t, plus capitals and digits that rise
- *    above the x-height) than descenders (g j p q y) — a long-known cue for upside-down pages. Within each line,
- *    characters reaching above the line's typical top are counted as "up", those reaching below its typical
- *    bottom as "down"; an upright page has more "up" than "down".
+ * 2. Up versus down, on the levelled page: Latin text has more ink above its x-height band (ascenders of
+ *    b d f h k l t, capitals, digits, i-dots) than below it (descenders of g j p q y) — a long-known cue for
+ *    upside-down pages. Each printed phrase votes with the balance of its ink above and below its densest rows;
+ *    working on row profiles rather than on single letters keeps the cue when blur merges letters into words.
  */
 
 export interface OrientationEstimate {
@@ -27,31 +23,16 @@ export interface OrientationEstimate {
   /** Neighbour links between character-sized components: along rows and along columns. */
   horizontalLinks: number;
   verticalLinks: number;
-  /** Characters rising above / dropping below their line, counted after the chosen turn. */
-  up: number;
-  down: number;
+  /** Mean vote of the phrases, -1..1, after the chosen turn: positive = more ink above the x-height band. */
+  upScore: number;
+  /** Phrases that voted. */
+  lines: number;
 }
 
 interface Glyph {
   box: Box;
   cx: number;
   cy: number;
-}
-
-/** Character-sized components: a few pixels to a few millimetres tall, not slivers, not frames. */
-function glyphs(img: GrayImage): Glyph[] {
-  const { components } = labelComponents(thresholdAt(img, inkThreshold(img)));
-  // Sizes scale with resolution; the limits are set for a letter page 2200 px tall (200 dpi): 6..90 px is
-  // about 0.75..11 mm, from a small x-height to large handwriting (common practice for glyph filters).
-  const k = Math.max(img.width, img.height) / 2200;
-  const out: Glyph[] = [];
-  for (const c of components) {
-    const b = c.box;
-    if (c.touchesBorder || b.h < 6 * k || b.h > 90 * k || b.w > 120 * k || c.area < 12 * k * k) continue;
-    if (c.area / (b.w * b.h) < 0.08) continue;
-    out.push({ box: b, cx: b.x + b.w / 2, cy: b.y + b.h / 2 });
-  }
-  return out;
 }
 
 /** Bucket grid for neighbour queries. */
@@ -106,59 +87,6 @@ function nearestNeighbourLinks(gs: readonly Glyph[], cell: number): { horizontal
   return { horizontal, vertical };
 }
 
-function median(v: number[]): number {
-  const s = [...v].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
-
-/** Count characters rising above / dropping below their line, boxes taken as upright text lines. */
-export function ascenderEvidence(boxes: readonly Box[], cell: number): { up: number; down: number } {
-  const gs = boxes.map((b) => ({ box: b, cx: b.x + b.w / 2, cy: b.y + b.h / 2 }));
-  const grid = new Grid(gs, cell);
-  let up = 0;
-  let down = 0;
-  gs.forEach((g, i) => {
-    const b = g.box;
-    const tops: number[] = [b.y];
-    const bottoms: number[] = [b.y + b.h];
-    for (const j of grid.near(g.cx, g.cy, 2)) {
-      if (j === i) continue;
-      const o = gs[j].box;
-      const overlap = Math.min(b.y + b.h, o.y + o.h) - Math.max(b.y, o.y);
-      const gap = Math.max(o.x - (b.x + b.w), b.x - (o.x + o.w));
-      // Same line: they share half the shorter height and sit within two heights of each other.
-      if (overlap >= 0.5 * Math.min(b.h, o.h) && gap <= 2 * Math.max(b.h, o.h)) {
-        tops.push(o.y);
-        bottoms.push(o.y + o.h);
-      }
-    }
-    if (tops.length < 4) return;
-    const top = median(tops);
-    const bottom = median(bottoms);
-    const xh = bottom - top;
-    if (xh < 4) return;
-    // Ascenders rise about 0.4 x-height above the x-line and descenders drop about as far below the baseline
-    // in common sans and serif faces (from memory of typical font metrics); half of that clears blur and jitter.
-    if (b.y < top - 0.2 * xh) up++;
-    if (b.y + b.h > bottom + 0.2 * xh) down++;
-  });
-  return { up, down };
-}
-
-export interface OrientationOptions {
-  /**
-   * Skew of the page (degrees, see SkewEstimate) measured after the quarter turn that makes its lines
-   * horizontal; estimated here when absent. Baselines must be level for the up/down count to be sharp.
-   */
-  skew?: number;
-}
-
-/** Character-sized components of a page, for orientation (exported so a caller can reuse them across steps). */
-export function glyphBoxes(img: GrayImage): Box[] {
-  return glyphs(img).map((g) => g.box);
-}
-
 function neighbourCell(width: number, height: number): number {
   return Math.max(16, Math.round((64 * Math.max(width, height)) / 2200));
 }
@@ -171,40 +99,54 @@ export function linesRunDown(boxes: readonly Box[], width: number, height: numbe
 }
 
 /**
- * Finish the decision once the line direction and the skew (in the frame where lines run across) are known:
- * turn the glyph boxes with the page, level them (rotate each centre by -skew about the page centre), and let
- * ascenders outvote descenders.
+ * Up/down evidence of a levelled page whose lines run across: per phrase of three or more characters, the ink in
+ * the rows above its dense band (rows with at least half the fullest row's ink) against the ink below it.
+ * Returns the mean vote (-1..1; positive = upright) and how many phrases voted. Pure.
  */
-export function orientationFromGlyphs(boxes: readonly Box[], width: number, height: number, skew: number): OrientationEstimate {
-  const lines = linesRunDown(boxes, width, height);
-  const turns: [QuarterTurn, QuarterTurn] = lines.sideways ? [90, 270] : [0, 180];
-  const turn = quarterTurnAffine(turns[0], width, height);
-  const w = lines.sideways ? height : width;
-  const h = lines.sideways ? width : height;
-  const level = composeAffine(rotationAbout(-skew, w / 2, h / 2), turn);
-  const levelled = boxes.map((box) => {
-    const b = transformBox(turn, box);
-    const [cx, cy] = applyAffine(level, [box.x + box.w / 2, box.y + box.h / 2]);
-    return { x: cx - b.w / 2, y: cy - b.h / 2, w: b.w, h: b.h };
-  });
-  const ev = ascenderEvidence(levelled, neighbourCell(width, height));
-  const upright = ev.up >= ev.down;
-  const total = lines.horizontal + lines.vertical;
-  const lineConf = total ? Math.abs(lines.horizontal - lines.vertical) / total : 0;
-  const upConf = ev.up + ev.down ? Math.abs(ev.up - ev.down) / (ev.up + ev.down) : 0;
-  return {
-    rotation: upright ? turns[0] : turns[1],
-    confidence: Math.min(lineConf, upConf),
-    horizontalLinks: lines.horizontal,
-    verticalLinks: lines.vertical,
-    up: upright ? ev.up : ev.down,
-    down: upright ? ev.down : ev.up,
-  };
+export function textBandEvidence(img: GrayImage): { score: number; lines: number } {
+  const t = inkThreshold(img);
+  let votes = 0;
+  let lines = 0;
+  for (const p of findPhrases(img)) {
+    if (p.glyphs < 3) continue;
+    const b = p.box;
+    const profile: number[] = [];
+    for (let y = b.y; y < b.y + b.h; y++) {
+      let n = 0;
+      const row = y * img.width;
+      for (let x = b.x; x < b.x + b.w; x++) if (img.data[row + x] <= t) n++;
+      profile.push(n);
+    }
+    const peak = Math.max(...profile);
+    const first = profile.findIndex((v) => v >= 0.5 * peak);
+    let last = profile.length - 1;
+    while (last > 0 && profile[last] < 0.5 * peak) last--;
+    let up = 0;
+    let down = 0;
+    for (let i = 0; i < first; i++) up += profile[i];
+    for (let i = last + 1; i < profile.length; i++) down += profile[i];
+    if (up + down === 0) continue;
+    votes += (up - down) / (up + down);
+    lines++;
+  }
+  return { score: lines ? votes / lines : 0, lines };
 }
 
-/** Detect the page's quarter-turn rotation. Pure. */
-export function detectOrientation(img: GrayImage, options: OrientationOptions = {}): OrientationEstimate {
-  const boxes = glyphBoxes(img);
-  const skew = options.skew ?? estimateSkew(linesRunDown(boxes, img.width, img.height).sideways ? rotateQuarter(img, 90).image : img).angle;
-  return orientationFromGlyphs(boxes, img.width, img.height, skew);
+/** Combine the two steps' evidence into an estimate (sideways from linesRunDown, upScore from textBandEvidence). */
+export function orientationEstimate(
+  lines: { sideways: boolean; horizontal: number; vertical: number },
+  band: { score: number; lines: number },
+): OrientationEstimate {
+  const upright = band.score >= 0;
+  const turns: [QuarterTurn, QuarterTurn] = lines.sideways ? [90, 270] : [0, 180];
+  const total = lines.horizontal + lines.vertical;
+  const lineConf = total ? Math.abs(lines.horizontal - lines.vertical) / total : 0;
+  return {
+    rotation: upright ? turns[0] : turns[1],
+    confidence: Math.min(lineConf, Math.abs(band.score)),
+    horizontalLinks: lines.horizontal,
+    verticalLinks: lines.vertical,
+    upScore: Math.abs(band.score),
+    lines: band.lines,
+  };
 }

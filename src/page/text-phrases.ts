@@ -1,5 +1,5 @@
 import type { Box } from './geometry.js';
-import { glyphBoxes } from './orientation.js';
+import { glyphBoxes } from './glyphs.js';
 import type { GrayImage } from './raster.js';
 
 /**
