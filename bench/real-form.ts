@@ -113,8 +113,12 @@ async function main(): Promise<void> {
     process.stdout.write(`(b) extraction on the filled real layout\n${formatScore(report, { perField: true })}\n`);
     const typeRows = Object.entries(report.byType).map(([type, m]) => [type, String(m.fields), pct(m.exactMatch), pct(m.markAccuracy), pct(m.locationRecall), pct(m.straightThrough)]);
     process.stdout.write(`${formatRows(['type', 'fields', 'exact', 'marks', 'located', 'straight'], typeRows)}\n\n`);
-    const alignRows = alignment.map((a) => [a.stem, a.method, a.mean.toFixed(2), a.max.toFixed(2)]);
-    process.stdout.write(`alignment error of the schema regions (corner distance to the true scan transform, source pixels)\n${formatRows(['page', 'method', 'mean px', 'max px'], alignRows)}\n\n`);
+    const alignRows = alignment.map((a) => [a.stem, a.method, a.mean.toFixed(2), a.max.toFixed(2), a.affineLimit.mean.toFixed(2), a.affineLimit.max.toFixed(2)]);
+    process.stdout.write(
+      'alignment error of the schema regions (corner distance to the true scan transform, source pixels; ' +
+        '"affine best": the least-squares affine fit to the true corners, the floor for any affine alignment)\n' +
+        `${formatRows(['page', 'method', 'mean px', 'max px', 'affine best mean', 'affine best max'], alignRows)}\n\n`,
+    );
 
     // (c) drafting on the blank.
     let draft: DraftCoverage | { error: string };

@@ -1,5 +1,6 @@
 import type { Affine, Point } from '../../src/page/geometry.js';
 import { applyAffine, composeAffine, invertAffine } from '../../src/page/geometry.js';
+import { fitTransform } from '../../src/page/fit.js';
 import { normalizePage } from '../../src/page/normalize.js';
 import type { GrayImage } from '../../src/page/raster.js';
 import type { DocumentResult } from '../../src/result/document.js';
@@ -19,6 +20,11 @@ export interface AlignmentError {
   /** Mean corner distance. */
   mean: number;
   corners: number;
+  /**
+   * The same figures for the least-squares affine fit to the true corners: the best any affine alignment can do.
+   * A simulated scan adds a small keystone (a projective term), which no affine map follows across the page.
+   */
+  affineLimit: { max: number; mean: number };
 }
 
 /**
@@ -39,16 +45,20 @@ function corners(r: readonly [number, number, number, number]): Point[] {
   return [[x, y], [x + w, y], [x, y + h], [x + w, y + h]];
 }
 
+function distances(t: Affine, from: readonly Point[], to: readonly Point[]): { max: number; mean: number } {
+  const d = from.map((p, i) => {
+    const [x, y] = applyAffine(t, p);
+    return Math.hypot(x - to[i][0], y - to[i][1]);
+  });
+  return { max: Math.max(...d), mean: d.reduce((s, v) => s + v, 0) / d.length };
+}
+
 export function alignmentError(loaded: LoadedSchema, refToSource: Affine, truth: Homography): AlignmentError {
-  const d: number[] = [];
-  for (const field of loaded.schema.fields.filter((f) => f.page === 0)) {
-    for (const { region } of fieldRegions(field)) {
-      for (const p of corners(region)) {
-        const [ex, ey] = applyAffine(refToSource, p);
-        const [tx, ty] = applyH(truth, p[0], p[1]);
-        d.push(Math.hypot(ex - tx, ey - ty));
-      }
-    }
-  }
-  return { max: Math.max(...d), mean: d.reduce((s, v) => s + v, 0) / d.length, corners: d.length };
+  const ref: Point[] = loaded.schema.fields
+    .filter((f) => f.page === 0)
+    .flatMap((f) => fieldRegions(f).flatMap(({ region }) => corners(region)));
+  const onPage: Point[] = ref.map((p) => applyH(truth, p[0], p[1]));
+  const best = fitTransform('affine', ref, onPage);
+  if (!best) throw new Error('the schema regions do not determine an affine fit');
+  return { ...distances(refToSource, ref, onPage), corners: ref.length, affineLimit: distances(best, ref, onPage) };
 }

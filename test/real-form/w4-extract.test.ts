@@ -63,6 +63,9 @@ describe('extract on the real blank layout, filled with invented typed values an
     expect(err.corners).toBe(4 * 20);
     expect(err.max).toBeLessThan(8);
     expect(err.mean).toBeLessThan(3);
+    // Against the best any affine map can do (least-squares fit to the true corners; the scan adds a small keystone):
+    // measured 0.12-0.37 px above it in mean on seed 900000 pages 0-5 (light).
+    expect(err.mean - err.affineLimit.mean).toBeLessThan(1);
 
     expect(scored).toHaveLength(18);
     // Location: result box IoU >= 0.5 with the truth box (PASCAL VOC's criterion, Everingham et al. 2010).
