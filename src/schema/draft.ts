@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
 import type { Box } from '../page/geometry.js';
-import { center } from '../page/geometry.js';
+import { center, iou } from '../page/geometry.js';
 import { cropGray } from '../page/raster.js';
 import type { GrayImage } from '../page/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
@@ -273,6 +273,25 @@ function checkboxGroups(cands: readonly Candidate[]): Candidate[][] {
 }
 
 /**
+ * One field per place: detections of different classes on the same spot (a checkbox found inside a text entry, a
+ * text entry doubling a comb) are resolved in favour of the higher score. Boxes overlapping by IoU >= 0.3, or one
+ * lying 70 % inside the other, count as the same spot (common practice for cross-class suppression).
+ */
+export function suppressAcrossClasses(dets: readonly Detection[]): Detection[] {
+  const kept: Detection[] = [];
+  const within = (a: Box, b: Box) => {
+    const ix = Math.max(0, Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x));
+    const iy = Math.max(0, Math.min(a.y + a.h, b.y + b.h) - Math.max(a.y, b.y));
+    return (ix * iy) / Math.max(1e-9, Math.min(a.w * a.h, b.w * b.h));
+  };
+  for (const d of [...dets].sort((a, b) => b.score - a.score)) {
+    if (kept.some((k) => iou(k.box, d.box) >= 0.3 || within(k.box, d.box) >= 0.7)) continue;
+    kept.push(d);
+  }
+  return kept;
+}
+
+/**
  * Draft a schema from blank pages (upright, deskewed) and their detections. `readLabel` reads a phrase crop
  * (the CLI passes the tesseract engine). `schema` is the validated schema; `source` is the same content without
  * the defaults validation fills in, for writing a compact file.
@@ -287,7 +306,7 @@ export async function draftSchema(
   const used = new Set<string>();
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
-    const dets = [...(detections[pi] ?? [])].sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
+    const dets = suppressAcrossClasses(detections[pi] ?? []).sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
     const phrases = findPhrases(page, { exclude: dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box) });
     const typical = phrases.length ? [...phrases.map((p) => p.charHeight)].sort((a, b) => a - b)[phrases.length >> 1] : 16;

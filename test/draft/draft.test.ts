@@ -4,7 +4,7 @@ import { expectedParts } from '../../src/locate/expected-boxes.js';
 import type { Box } from '../../src/page/geometry.js';
 import { grayFromImage } from '../../src/page/raster.js';
 import { OcrEngine } from '../../src/read/ocr-engine.js';
-import { cleanLabel, draftSchema, guessType, slugName } from '../../src/schema/draft.js';
+import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/schema/draft.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { loadSchema } from '../../src/schema/load.js';
 
@@ -104,5 +104,17 @@ describe('naming and typing helpers', () => {
     expect(guessType('Weight (kg)', 'text_entry', line, 16).options).toEqual({ decimalSeparator: '.', unit: 'kg' });
     expect(guessType('Notes', 'text_entry', { x: 0, y: 0, w: 900, h: 200 }, 16).ocr).toEqual({ mode: 'block' });
     expect(guessType('anything', 'checkbox', line, 16).type).toBe('checkbox');
+  });
+});
+
+describe('suppressAcrossClasses', () => {
+  it('keeps the higher-scored of two classes on one spot and leaves separate areas alone', () => {
+    const entry = { ...det({ x: 100, y: 100, w: 400, h: 60 }, 'text_entry'), score: 0.8 };
+    const boxInside = { ...det({ x: 120, y: 110, w: 40, h: 40 }, 'checkbox'), score: 0.4 };
+    const comb = { ...det({ x: 105, y: 102, w: 390, h: 56 }, 'comb_field'), score: 0.5 };
+    const apart = { ...det({ x: 600, y: 100, w: 40, h: 40 }, 'checkbox'), score: 0.35 };
+    const kept = suppressAcrossClasses([boxInside, comb, entry, apart]);
+    expect(kept.map((d) => d.className)).toEqual(['text_entry', 'checkbox']);
+    expect(kept[1].box.x).toBe(600);
   });
 });
