@@ -1,10 +1,12 @@
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
-import type { OcrMode, TextReading } from '../fields/types.js';
+import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
 import { cropField, type FieldCrop, type Padding } from './crop.js';
-import { cleanCrop, isBlank, type CleanupVariant } from './cleanup/pipeline.js';
+import { cleanCrop, isBlank, ruleLengths, type CleanupVariant } from './cleanup/pipeline.js';
+import { removeDashedRules, removeRuledLines } from './cleanup/line-removal.js';
+import { cellImage, combCells, joinCells } from './comb-cells.js';
 import { sharedOcrEngine, type OcrEngine } from './ocr-engine.js';
-import { ADAPTIVE, KEEP_LINES, STANDARD } from './variants.js';
+import { ADAPTIVE, BINARY, COMB_CELLS, KEEP_LINES, STANDARD } from './variants.js';
 
 export interface ReadTextOptions {
   /** Pixels, or "N%" of the box's shorter side. Default 4 (the schema default). */
@@ -19,7 +21,9 @@ export interface ReadTextOptions {
   comb?: boolean;
   /** Known page skew in degrees, when the page stage measured it; otherwise each crop estimates its own. */
   skew?: number;
-  /** Cleanup recipes in the order to try; default: standard, then adaptive, then keep_lines. */
+  /** Character height the upscale step aims at, pixels; default DEFAULT_CHARACTER_HEIGHT. */
+  characterHeight?: number;
+  /** Cleanup recipes, the main one first; default defaultVariants(comb). */
   variants?: readonly CleanupVariant[];
   /** OCR engine; default the process-wide one. */
   engine?: OcrEngine;
@@ -43,18 +47,70 @@ export interface TextFieldReading {
   crop: FieldCrop;
 }
 
+type VariantOptions = Pick<ReadTextOptions, 'mode' | 'allowed' | 'comb' | 'skew' | 'engine' | 'characterHeight'>;
+
+/**
+ * Main recipe and second tries, by measurement on bench/cleanup-gain.ts: standard reads most fields; adaptive,
+ * binary and keep_lines each read some that standard misses; for comb fields the cell-by-cell reading comes first
+ * among the second tries.
+ */
+export function defaultVariants(comb: boolean): CleanupVariant[] {
+  return comb ? [STANDARD, COMB_CELLS, ADAPTIVE, BINARY] : [STANDARD, ADAPTIVE, BINARY, KEEP_LINES];
+}
+
 /** Clean a crop with one variant and OCR it. */
 export async function readVariant(
   crop: FieldCrop,
   variant: CleanupVariant,
-  options: Pick<ReadTextOptions, 'mode' | 'allowed' | 'comb' | 'skew' | 'engine'>,
+  options: VariantOptions,
 ): Promise<TextReading & { blank: boolean }> {
+  if (variant.perCell) return readCells(crop, variant, options);
   const mode = options.mode ?? 'line';
-  const cleaned = cleanCrop(crop.image, variant, { inner: crop.inner, mode, comb: options.comb, skew: options.skew });
+  const cleaned = cleanCrop(crop.image, variant, {
+    inner: crop.inner,
+    mode,
+    comb: options.comb,
+    skew: options.skew,
+    characterHeight: options.characterHeight,
+  });
   if (isBlank(cleaned)) return { kind: 'text', text: '', words: [], confidence: 1, variant: variant.name, blank: true };
   const engine = options.engine ?? sharedOcrEngine();
   const reading = await engine.read(cleaned, { mode, allowed: options.allowed });
   return { ...reading, variant: variant.name, blank: false };
+}
+
+/**
+ * Comb field, cell by cell: binarize (after the variant's deskew), find the printed separators, and read every
+ * cell as a single character (tesseract PSM 10). Without at least two cells it reads the line as a whole.
+ */
+async function readCells(crop: FieldCrop, variant: CleanupVariant, options: VariantOptions): Promise<TextReading & { blank: boolean }> {
+  const ctx = { inner: crop.inner, mode: 'char' as const, comb: true, skew: options.skew };
+  const before = variant.steps.filter((s) => s === 'deskew' || s === 'otsu' || s === 'sauvola');
+  const binary = cleanCrop(crop.image, { name: variant.name, steps: before.some((s) => s !== 'deskew') ? before : [...before, 'otsu'] }, ctx);
+  const removal = removeRuledLines(binary, ruleLengths(ctx, crop.inner));
+  const cells = combCells(removal.vertical, binary.width, crop.inner);
+  if (cells.length < 2) {
+    return readVariant(crop, { name: variant.name, steps: variant.steps }, { ...options, mode: 'line', comb: true });
+  }
+  const clean = removeDashedRules(removal.image);
+  const engine = options.engine ?? sharedOcrEngine();
+  const chars: (string | null)[] = [];
+  const words: OcrWord[] = [];
+  for (const cell of cells) {
+    const img = cellImage(clean, cell, options.characterHeight);
+    if (!img) {
+      chars.push(null);
+      continue;
+    }
+    const r = await engine.read(img, { mode: 'char', allowed: options.allowed });
+    // PSM 10 sometimes returns a letter twice in both cases ("Ww"): one cell holds one character, keep the first.
+    const ch = r.text.replace(/\s+/g, '').slice(0, 1);
+    chars.push(ch);
+    if (ch) words.push({ text: ch, confidence: r.confidence });
+  }
+  const text = joinCells(chars);
+  const confidence = words.length ? words.reduce((s, w) => s + w.confidence, 0) / words.length : 1;
+  return { kind: 'text', text, words, confidence, variant: variant.name, blank: words.length === 0 };
 }
 
 /**
@@ -65,7 +121,7 @@ export async function readVariant(
  */
 export async function readTextField(page: GrayImage, box: Box, options: ReadTextOptions = {}): Promise<TextFieldReading> {
   const crop = cropField(page, box, options.padding ?? 4);
-  const variants = options.variants ?? [STANDARD, ADAPTIVE, KEEP_LINES];
+  const variants = options.variants ?? defaultVariants(options.comb ?? false);
   if (variants.length === 0) throw new Error('readTextField needs at least one cleanup variant');
   const attempts: ReadAttempt[] = [];
   const judge = (r: TextReading): boolean | null => (options.accept ? options.accept(r) : null);

@@ -5,7 +5,8 @@ import { binarizeOtsu } from '../../src/read/cleanup/otsu.js';
 import { removeRuledLines } from '../../src/read/cleanup/line-removal.js';
 import { filterComponents, labelComponents } from '../../src/read/cleanup/components.js';
 import { isolateTextBand, textBands } from '../../src/read/cleanup/text-band.js';
-import { estimateSkew, rotateGray } from '../../src/read/cleanup/deskew.js';
+import { estimateSkew, rotateGray, uprightBox } from '../../src/read/cleanup/deskew.js';
+import { maskedGray } from '../../src/read/cleanup/pipeline.js';
 import { characterHeight, upscaleToCharacterHeight } from '../../src/read/cleanup/upscale.js';
 import { rowProfile, INK } from '../../src/read/cleanup/binary.js';
 import { createGray, type GrayImage } from '../../src/page/raster.js';
@@ -91,6 +92,30 @@ describe('deskew (projection-profile method)', () => {
     expect(Math.abs(estimateSkew(bin) - 3)).toBeLessThanOrEqual(0.5);
     const straight = binarizeOtsu(rotateGray(crop.image, estimateSkew(bin)));
     expect(Math.abs(estimateSkew(straight))).toBeLessThanOrEqual(0.5);
+  });
+});
+
+describe('upright field box after deskew', () => {
+  it('recovers the size of a tilted rectangle from its axis-aligned bounds', () => {
+    // A 200 x 40 rectangle turned by 3 degrees has bounds W = 200 cos 3 + 40 sin 3, H = 200 sin 3 + 40 cos 3
+    // (rotation of the corner points; plane trigonometry). Centred in a 300 x 120 crop the centre stays put.
+    const t = (3 * Math.PI) / 180;
+    const W = 200 * Math.cos(t) + 40 * Math.sin(t);
+    const H = 200 * Math.sin(t) + 40 * Math.cos(t);
+    const b = uprightBox({ x: (299 - W) / 2, y: (119 - H) / 2, w: W, h: H }, 3, 300, 120);
+    expect(b.w).toBeCloseTo(200, 6);
+    expect(b.h).toBeCloseTo(40, 6);
+    expect(b.x + b.w / 2).toBeCloseTo(149.5, 6);
+    expect(b.y + b.h / 2).toBeCloseTo(59.5, 6);
+  });
+});
+
+describe('gray levels behind the kept ink', () => {
+  it('keeps the gray of kept ink and one pixel around it, paper elsewhere', () => {
+    const gray = createGray(5, 1, 90);
+    const mask = createGray(5, 1, 255);
+    mask.data[2] = INK;
+    expect(Array.from(maskedGray(gray, mask).data)).toEqual([255, 90, 90, 90, 255]);
   });
 });
 

@@ -1,9 +1,14 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { distance } from 'fastest-levenshtein';
 import { renderCell } from './render-cell.js';
-import { readTextField } from '../../src/read/read-text.js';
+import { readTextField, readVariant } from '../../src/read/read-text.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
-import { ADAPTIVE, STANDARD } from '../../src/read/variants.js';
+import { ADAPTIVE, COMB_CELLS, STANDARD } from '../../src/read/variants.js';
+import { cropField } from '../../src/read/crop.js';
+import { binarizeOtsu } from '../../src/read/cleanup/otsu.js';
+import { removeRuledLines } from '../../src/read/cleanup/line-removal.js';
+import { ruleLengths } from '../../src/read/cleanup/pipeline.js';
+import { combCells, joinCells } from '../../src/read/comb-cells.js';
 
 afterAll(closeSharedOcrEngine);
 
@@ -59,5 +64,25 @@ describe('readTextField on rendered typed cells (real tesseract.js)', () => {
     ]);
     expect(reading.variant).toBe('adaptive');
     expect(reading.text).toBe(value);
+  });
+});
+
+describe('comb fields cell by cell', () => {
+  it('finds the printed cells and reads one character per cell, an empty cell as a space', async () => {
+    // Canadian postal code layout "K1A 0B1" (Canada Post: letter digit letter, space, digit letter digit; from memory)
+    // written in a 7-cell comb with the middle cell left empty.
+    const { page, box } = await renderCell({ value: 'K1A 0B1', comb: 7, fontSize: 30 });
+    const crop = cropField(page, box, 6);
+    const bin = binarizeOtsu(crop.image);
+    const { vertical } = removeRuledLines(bin, ruleLengths({ comb: true }, crop.inner));
+    const cells = combCells(vertical, bin.width, crop.inner);
+    expect(cells.length).toBe(7);
+    const r = await readVariant(crop, COMB_CELLS, { comb: true, allowed: 'ABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789' });
+    expect(r.text).toBe('K1A 0B1');
+  });
+
+  it('joins cells with one space for empty cells between characters', () => {
+    // Definition of the comb join used by readCells (common practice for character boxes).
+    expect(joinCells([null, 'A', 'B', null, null, 'C', null])).toBe('AB C');
   });
 });

@@ -23,8 +23,13 @@ export function inkColumns(img: GrayImage): { left: number; right: number }[] {
  * space of `wordGap` (both shares of the line height `height`; 0.15 em and 0.5 em are common typesetting values).
  */
 export function compactGaps(img: GrayImage, height: number): GrayImage {
+  return compactGapsAlong(img, height, [])[0];
+}
+
+/** compactGaps, moving the same columns of further images of the same size (e.g. the grayscale behind a mask). */
+export function compactGapsAlong(img: GrayImage, height: number, others: GrayImage[]): GrayImage[] {
   const runs = inkColumns(img);
-  if (runs.length < 2) return img;
+  if (runs.length < 2) return [img, ...others];
   const gaps = runs.slice(1).map((r, i) => r.left - runs[i].right).sort((a, b) => a - b);
   const median = gaps[Math.floor(gaps.length / 2)];
   const letterGap = Math.max(2, Math.round(height * 0.15));
@@ -35,13 +40,15 @@ export function compactGaps(img: GrayImage, height: number): GrayImage {
     return g > median * 1.5 ? wordGap : letterGap;
   });
   const width = runs.reduce((s, r) => s + r.right - r.left, 0) + newGaps.reduce((s, g) => s + g, 0) + 2 * runs[0].left;
-  const out = createGray(width, img.height);
-  let x = runs[0].left;
-  runs.forEach((r, i) => {
-    for (let y = 0; y < img.height; y++) {
-      out.data.set(img.data.subarray(y * img.width + r.left, y * img.width + r.right), y * width + x);
-    }
-    x += r.right - r.left + (newGaps[i] ?? 0);
+  return [img, ...others].map((src) => {
+    const out = createGray(width, src.height);
+    let x = runs[0].left;
+    runs.forEach((r, i) => {
+      for (let y = 0; y < src.height; y++) {
+        out.data.set(src.data.subarray(y * src.width + r.left, y * src.width + r.right), y * width + x);
+      }
+      x += r.right - r.left + (newGaps[i] ?? 0);
+    });
+    return out;
   });
-  return out;
 }

@@ -1,3 +1,4 @@
+import type { Box } from '../../page/geometry.js';
 import type { GrayImage } from '../../page/raster.js';
 import { createGray } from '../../page/raster.js';
 import { INK } from './binary.js';
@@ -56,4 +57,26 @@ export function rotateGray(img: GrayImage, degrees: number): GrayImage {
     }
   }
   return out;
+}
+
+/**
+ * Where a field box lands after rotateGray(img, degrees), and how large the upright field inside it is. A box found
+ * on a tilted page is the axis-aligned bound of a tilted rectangle of w x h:  W = w cos t + h sin t,
+ * H = w sin t + h cos t; solving for w and h gives the upright rectangle, centred where the box's centre moves.
+ * The tighter box keeps a neighbouring label, which the tilt brought into the bound, out of the field.
+ */
+export function uprightBox(box: Box, degrees: number, width: number, height: number): Box {
+  const t = (Math.abs(degrees) * Math.PI) / 180;
+  const c = Math.cos(t), s = Math.sin(t);
+  const det = c * c - s * s;
+  let w = (box.w * c - box.h * s) / det;
+  let h = (box.h * c - box.w * s) / det;
+  // A long thin box tilted further than its own aspect allows: keep the bound rather than invent a size.
+  if (!(w > 0 && h > 0)) { w = box.w; h = box.h; }
+  const a = (degrees * Math.PI) / 180;
+  const cx = (width - 1) / 2, cy = (height - 1) / 2;
+  const dx = box.x + box.w / 2 - cx, dy = box.y + box.h / 2 - cy;
+  const nx = Math.cos(a) * dx + Math.sin(a) * dy + cx;
+  const ny = -Math.sin(a) * dx + Math.cos(a) * dy + cy;
+  return { x: nx - w / 2, y: ny - h / 2, w, h };
 }

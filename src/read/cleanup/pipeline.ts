@@ -1,25 +1,28 @@
 import type { Box } from '../../page/geometry.js';
 import type { GrayImage } from '../../page/raster.js';
+import { createGray } from '../../page/raster.js';
 import { binarizeOtsu } from './otsu.js';
 import { binarizeSauvola } from './sauvola.js';
-import { estimateSkew, rotateGray } from './deskew.js';
+import { estimateSkew, rotateGray, uprightBox } from './deskew.js';
 import { removeDashedRules, removeRuledLines } from './line-removal.js';
 import { filterComponents } from './components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
-import { upscaleToCharacterHeight } from './upscale.js';
+import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
 import { padImage, trimAndPad } from './pad.js';
 import { thresholdAt } from './binary.js';
-import { compactGaps } from './compact.js';
+import { compactGapsAlong } from './compact.js';
 import { characterHeight } from './upscale.js';
 
 /** The cleanup steps, in the order they run when a variant lists them. */
-export const CLEANUP_STEPS = ['deskew', 'otsu', 'sauvola', 'lines', 'components', 'band', 'compact', 'upscale', 'pad'] as const;
+export const CLEANUP_STEPS = ['deskew', 'otsu', 'sauvola', 'lines', 'components', 'band', 'compact', 'upscale', 'pad', 'regray'] as const;
 export type CleanupStep = (typeof CLEANUP_STEPS)[number];
 
 /** A named recipe of steps; `readTextField` tries variants in turn. */
 export interface CleanupVariant {
   name: string;
   steps: readonly CleanupStep[];
+  /** Comb fields: read each printed cell as one character instead of the whole line (see read-text.ts). */
+  perCell?: boolean;
 }
 
 export interface CleanupContext {
@@ -35,8 +38,14 @@ export interface CleanupContext {
   characterHeight?: number;
 }
 
+/**
+ * Between steps: `image` is what the next step works on (grayscale until a binarization, then the binary ink mask);
+ * `gray` is the grayscale crop moved along through every geometric change (rotation, compaction, scaling, trimming)
+ * so the last step can hand tesseract the original gray levels of the kept ink.
+ */
 interface State {
   image: GrayImage;
+  gray: GrayImage;
   binary: boolean;
   inner: Box;
 }
@@ -51,7 +60,7 @@ function ensureBinary(s: State): State {
  * fields a vertical run down to 25 % of the box height counts too when it ends on a horizontal rule. Shares are
  * common practice for printed cells, checked on bench/cleanup-gain.ts.
  */
-function ruleLengths(ctx: CleanupContext, inner: Box): { minVertical: number; minAnchoredVertical?: number } {
+export function ruleLengths(ctx: Pick<CleanupContext, 'comb'>, inner: Box): { minVertical: number; minAnchoredVertical?: number } {
   const minVertical = Math.max(12, Math.round(inner.h * 0.8));
   return ctx.comb ? { minVertical, minAnchoredVertical: Math.max(5, Math.round(inner.h * 0.25)) } : { minVertical };
 }
@@ -61,13 +70,14 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
     case 'deskew': {
       const angle = ctx.skew ?? estimateSkew(s.binary ? s.image : binarizeOtsu(s.image));
       if (Math.abs(angle) < 0.2) return s;
-      const rotated = rotateGray(s.image, angle);
-      return { ...s, image: s.binary ? thresholdAt(rotated, 127) : rotated };
+      const gray = rotateGray(s.gray, angle);
+      const inner = uprightBox(s.inner, angle, s.image.width, s.image.height);
+      return { ...s, gray, image: s.binary ? thresholdAt(rotateGray(s.image, angle), 127) : gray, inner };
     }
     case 'otsu':
-      return { ...s, image: binarizeOtsu(s.image), binary: true };
+      return { ...s, image: binarizeOtsu(s.gray), binary: true };
     case 'sauvola':
-      return { ...s, image: binarizeSauvola(s.image, { window: Math.max(15, Math.round(s.inner.h) | 1) }), binary: true };
+      return { ...s, image: binarizeSauvola(s.gray, { window: Math.max(15, Math.round(s.inner.h) | 1) }), binary: true };
     case 'lines': {
       const b = ensureBinary(s);
       return { ...b, image: removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image) };
@@ -88,28 +98,75 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
       if (!ctx.comb) return s;
       const b = ensureBinary(s);
       const height = characterHeight(b.image);
-      return height === null ? b : { ...b, image: compactGaps(b.image, height) };
+      if (height === null) return b;
+      const [image, gray] = compactGapsAlong(b.image, height, [b.gray]);
+      return { ...b, image, gray };
     }
     case 'upscale': {
       const b = ensureBinary(s);
       const { image, factor } = upscaleToCharacterHeight(b.image, { target: ctx.characterHeight });
+      if (factor === 1) return b;
       const inner = { x: b.inner.x * factor, y: b.inner.y * factor, w: b.inner.w * factor, h: b.inner.h * factor };
-      return { ...b, image, inner };
+      return { ...b, image, gray: resizeTo(b.gray, image), inner };
     }
-    case 'pad':
-      return s.binary ? { ...s, image: trimAndPad(s.image, inkBounds(s.image)) } : { ...s, image: padImage(s.image, 10) };
+    case 'pad': {
+      if (!s.binary) {
+        const gray = padImage(s.gray, 10);
+        return { ...s, image: gray, gray };
+      }
+      const ink = inkBounds(s.image);
+      return { ...s, image: trimAndPad(s.image, ink), gray: trimAndPad(s.gray, ink) };
+    }
+    case 'regray':
+      return s.binary ? { ...s, image: maskedGray(s.gray, s.image), binary: false } : s;
   }
+}
+
+/** Resample `img` to exactly the size of `like` (factor rounding can differ by a pixel). */
+function resizeTo(img: GrayImage, like: GrayImage): GrayImage {
+  const r = resizeBilinear(img, like.width / img.width);
+  if (r.width === like.width && r.height === like.height) return r;
+  const out = createGray(like.width, like.height);
+  for (let y = 0; y < like.height; y++)
+    for (let x = 0; x < like.width; x++)
+      out.data[y * like.width + x] = r.data[Math.min(r.height - 1, y) * r.width + Math.min(r.width - 1, x)];
+  return out;
+}
+
+/**
+ * The grayscale crop seen only through the kept ink (grown by one pixel so anti-aliased glyph edges stay):
+ * everything the cleanup removed is paper, the glyphs keep their original gray levels and tesseract binarizes
+ * them itself.
+ */
+export function maskedGray(gray: GrayImage, mask: GrayImage): GrayImage {
+  const { width: w, height: h } = mask;
+  const out = createGray(w, h);
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      let near = false;
+      for (let dy = -1; dy <= 1 && !near; dy++) {
+        const yy = y + dy;
+        if (yy < 0 || yy >= h) continue;
+        for (let dx = -1; dx <= 1; dx++) {
+          const xx = x + dx;
+          if (xx >= 0 && xx < w && mask.data[yy * w + xx] === 0) { near = true; break; }
+        }
+      }
+      if (near) out.data[y * w + x] = gray.data[y * w + x];
+    }
+  }
+  return out;
 }
 
 /** Run a variant's steps over a field crop; returns the image to hand to OCR (blank paper when no ink is left). */
 export function cleanCrop(image: GrayImage, variant: CleanupVariant, ctx: CleanupContext): GrayImage {
-  let s: State = { image, binary: false, inner: ctx.inner };
+  let s: State = { image, gray: image, binary: false, inner: ctx.inner };
   for (const step of variant.steps) s = runStep(step, s, ctx);
   return s.image;
 }
 
-/** True when a cleaned crop holds no ink at all (nothing for OCR to read). */
+/** True when a cleaned crop holds nothing but white paper (cleanup removed everything; nothing for OCR to read). */
 export function isBlank(image: GrayImage): boolean {
-  for (let i = 0; i < image.data.length; i++) if (image.data[i] < 128) return false;
+  for (let i = 0; i < image.data.length; i++) if (image.data[i] !== 255) return false;
   return true;
 }

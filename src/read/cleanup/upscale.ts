@@ -31,8 +31,9 @@ export function resizeBilinear(img: GrayImage, factor: number): GrayImage {
 export interface UpscaleOptions {
   /**
    * Character height to scale to, pixels. Tesseract's documentation says accuracy drops below an x-height of about
-   * 10 px and that 10 pt text at 300 dpi has an x-height near 20 px (tessdoc "Improving the quality of the output",
-   * from memory); the default is set by measurement on bench/cleanup-gain.ts.
+   * 10 px (tessdoc "Improving the quality of the output", from memory), and its LSTM recognizer scales every text
+   * line to 36 px high (its own message "Image too small to scale!! (2x36 ...)" shows it). 32 px was best or
+   * level with the best of 16..44 on bench/cleanup-gain.ts at 150 and 200-300 dpi (differences within 2 points).
    */
   target?: number;
   /** Never shrink below this factor nor grow beyond maxFactor. */
@@ -40,7 +41,7 @@ export interface UpscaleOptions {
   maxFactor?: number;
 }
 
-export const DEFAULT_CHARACTER_HEIGHT = 24;
+export const DEFAULT_CHARACTER_HEIGHT = 32;
 
 /** Scale a binary crop so its characters reach the target height; the resampled edges are re-thresholded at mid-gray. */
 export function upscaleToCharacterHeight(img: GrayImage, options: UpscaleOptions = {}): { image: GrayImage; factor: number } {

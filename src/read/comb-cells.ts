@@ -1,0 +1,66 @@
+import type { Box } from '../page/geometry.js';
+import type { GrayImage } from '../page/raster.js';
+import { cropGray } from '../page/raster.js';
+import { isBlank } from './cleanup/pipeline.js';
+import { filterComponents } from './cleanup/components.js';
+import { inkBounds } from './cleanup/text-band.js';
+import { upscaleToCharacterHeight } from './cleanup/upscale.js';
+import { trimAndPad } from './cleanup/pad.js';
+
+/**
+ * Cell boundaries of a comb field from its vertical-rule mask (removeRuledLines' `vertical`): columns inside the
+ * field box where rule pixels cover at least a quarter of the box height are separators; neighbouring separator
+ * columns merge; the box sides close the first and last cell. Cells narrower than 40 % of the median cell are
+ * merged away (a doubled separator line). Returns cell boxes in crop pixels, left to right.
+ */
+export function combCells(vertical: Uint8Array, width: number, inner: Box): Box[] {
+  const y0 = Math.max(0, Math.round(inner.y)), y1 = Math.round(inner.y + inner.h);
+  const height = Math.round(vertical.length / width);
+  const count = (x: number) => {
+    let n = 0;
+    for (let y = y0; y < Math.min(height, y1); y++) n += vertical[y * width + x];
+    return n;
+  };
+  const cuts: number[] = [Math.max(0, Math.round(inner.x))];
+  let run: number[] = [];
+  const flush = () => {
+    if (run.length) cuts.push(Math.round((run[0] + run[run.length - 1]) / 2));
+    run = [];
+  };
+  for (let x = Math.max(0, Math.round(inner.x)); x < Math.min(width, Math.round(inner.x + inner.w)); x++) {
+    if (count(x) >= 0.25 * inner.h) run.push(x);
+    else flush();
+  }
+  flush();
+  cuts.push(Math.min(width, Math.round(inner.x + inner.w)));
+  cuts.sort((a, b) => a - b);
+  const widths = cuts.slice(1).map((c, i) => c - cuts[i]).filter((w) => w > 0);
+  if (widths.length === 0) return [];
+  const median = [...widths].sort((a, b) => a - b)[Math.floor(widths.length / 2)];
+  const cells: Box[] = [];
+  let left = cuts[0];
+  for (let i = 1; i < cuts.length; i++) {
+    if (cuts[i] - left < 0.4 * median && i < cuts.length - 1) continue;
+    if (cuts[i] - left >= 0.4 * median) cells.push({ x: left, y: inner.y, w: cuts[i] - left, h: inner.h });
+    left = cuts[i];
+  }
+  return cells;
+}
+
+/** One cell's image ready for single-character OCR (upscaled to `target` px), or null when the cell holds no character. */
+export function cellImage(binary: GrayImage, cell: Box, target?: number): GrayImage | null {
+  const piece = cropGray(binary, cell);
+  const { image } = filterComponents(piece);
+  if (isBlank(image)) return null;
+  const up = upscaleToCharacterHeight(image, { target }).image;
+  return trimAndPad(up, inkBounds(up));
+}
+
+/** Join per-cell characters: an empty cell between characters is a space; empty cells at the ends are dropped. */
+export function joinCells(chars: (string | null)[]): string {
+  return chars
+    .map((c) => (c === null || c === '' ? ' ' : c))
+    .join('')
+    .trim()
+    .replace(/ {2,}/g, ' ');
+}
