@@ -112,7 +112,9 @@ export async function loadResults(dir: string): Promise<Map<string, ResultEntry>
     if (!raw || typeof raw !== 'object' || !('document' in raw) || !('fields' in raw)) continue;
     const parsed = DocumentResult.safeParse(raw);
     if (!parsed.success) invalid(file, 'document result', parsed.error);
-    const stem = fileStem(parsed.data.document.path);
+    // A file holding a stack of forms gives one record per form, named <file>.pN by extract (and by its truth).
+    const form = /\.p\d+$/.exec(parsed.data.document.id)?.[0] ?? '';
+    const stem = fileStem(parsed.data.document.path) + form;
     if (out.has(stem)) {
       throw configError(file, `second result for an image named "${stem}" (also ${path.basename(out.get(stem)!.file)})`);
     }

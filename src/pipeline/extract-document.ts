@@ -4,7 +4,7 @@ import type { Detection, Detector } from '../detect/types.js';
 import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
 import { decodeDocument, DEFAULT_LIMITS } from '../input/decode.js';
-import { locateFields } from '../locate/locate-fields.js';
+import { DEFAULT_LOCATE, locateFields } from '../locate/locate-fields.js';
 import type { Alignment } from '../page/alignment.js';
 import { invertAffine } from '../page/geometry.js';
 import type { NormalizedPage } from '../page/normalize.js';
@@ -119,7 +119,11 @@ async function extractForm(
     });
     const toSource = invertAffine(normalized.transform);
     const pageFields = schema.fields.filter((f) => f.page === p);
-    for (const lf of locateFields(pageFields, detections, alignment.refToPage)) {
+    const located = locateFields(pageFields, detections, alignment.refToPage, {
+      ...DEFAULT_LOCATE,
+      preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
+    });
+    for (const lf of located) {
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
       const outcome = await readLocatedField(lf, type, typeOptions, {

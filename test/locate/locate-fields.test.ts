@@ -72,7 +72,7 @@ describe('locating fields', () => {
   it('never gives one detection to two fields', () => {
     // One box halfway between the two name rows: it may stand for one of them at most.
     const dets = [det('text_entry', ...onPage(100, 150, 400, 50))];
-    const located = locateFields(schema.fields, dets, refToPage, { minMatch: 0.2, disagreeBelow: 0.1 });
+    const located = locateFields(schema.fields, dets, refToPage, { minMatch: 0.2, disagreeBelow: 0.1, preferRegion: false });
     const used = located.flatMap((l) => l.parts).filter((p) => p.source === 'detection');
     expect(used.length).toBeLessThanOrEqual(1);
   });
