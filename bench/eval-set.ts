@@ -4,12 +4,13 @@
  *  1. generate, for each demo layout, typed and handwriting-style fills with light scan degradation, from seeds
  *     reserved for evaluation (>= 900000; training uses 1..99999), into out/eval/samples/<layout>-<fill>/
  *     (skipped when already there: pages depend only on seed and index);
- *  2. extract each layout with its demo schema into out/eval/results/<layout>/ (resumable);
+ *  2. extract each layout with its demo schema into out/eval/results/<layout>/ (--resume keeps earlier results);
  *  3. score everything: the table, out/eval/score.json and the reliability diagram;
  *  4. calibrate review thresholds on the even-numbered pages of each layout and measure them on the odd ones
  *     (out/eval/calibrated/<layout>.yaml), then print the measured figures next to the targets.
  *
- * Options: --count N pages per layout and fill (default 20), --generate-only (prepare the set, stop), --layouts a,b, --fills typed,handwriting,
+ * Options: --count N pages per layout and fill (default 20), --generate-only (prepare the set, stop),
+ * --resume (reuse results of unchanged pages: only when the code has not changed since), --layouts a,b, --fills typed,handwriting,
  * --degrade none|light|heavy, --model FILE, --target-error 0.005, --out DIR, --per-field.
  */
 import { readdir, readFile } from 'node:fs/promises';
@@ -47,6 +48,7 @@ const { values: args } = parseArgs({
   options: {
     count: { type: 'string', default: '20' },
     'generate-only': { type: 'boolean', default: false },
+    resume: { type: 'boolean', default: false },
     layouts: { type: 'string', default: LAYOUTS.join(',') },
     fills: { type: 'string', default: FILLS.join(',') },
     degrade: { type: 'string', default: 'light' },
@@ -121,7 +123,9 @@ try {
       schemas: [schema],
       detector,
       outDir: path.join(resultsDir, layout),
-      resume: true,
+      // Off by default: a result is reused when image, schema and model are unchanged, but a change in the code
+      // that reads it would not be noticed.
+      resume: args.resume,
       onDocument: (e) => {
         if (!e.reused) say(`[${layout} ${e.index + 1}/${e.total}] ${e.line.ok ? `${e.line.seconds?.toFixed(1)} s` : 'FAILED'}`);
       },
