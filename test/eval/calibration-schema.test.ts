@@ -1,9 +1,11 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import path from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { runCalibrate } from '../../src/eval/calibration-run.js';
 import { parseSchemaText } from '../../src/schema/load.js';
-import { documentResult, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
+import { documentResult, removeTempDirs, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
+
+afterAll(removeTempDirs);
 
 const SCHEMA_YAML = `# Invented demo form for tests: a small animal clinic's intake sheet.
 form:

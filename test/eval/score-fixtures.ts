@@ -1,14 +1,23 @@
-import { mkdir, mkdtemp, writeFile } from 'node:fs/promises';
+import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import type { DocumentResult, FieldResult } from '../../src/result/document.js';
 import { countStatuses } from '../../src/result/document.js';
 import type { TruthDocument, TruthField } from '../../src/eval/score-input.js';
 
+const made: string[] = [];
+
 /** Invented demo data only: fictional names, 555-01xx phone numbers. */
 export async function tempDir(prefix: string): Promise<string> {
   await mkdir(path.resolve('.tmp'), { recursive: true });
-  return mkdtemp(path.join(path.resolve('.tmp'), prefix));
+  const dir = await mkdtemp(path.join(path.resolve('.tmp'), prefix));
+  made.push(dir);
+  return dir;
+}
+
+/** Remove the folders tempDir made (call from afterAll). */
+export async function removeTempDirs(): Promise<void> {
+  await Promise.all(made.splice(0).map((d) => rm(d, { recursive: true, force: true })));
 }
 
 export function truthDoc(layout: string, fill: TruthDocument['fill'], fields: TruthField[]): TruthDocument {

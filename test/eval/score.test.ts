@@ -2,13 +2,15 @@ import { Command } from 'commander';
 import { readFile, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import sharp from 'sharp';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { registerScoreCommand } from '../../src/cli/score.js';
 import { FormgleanError } from '../../src/errors.js';
 import { runScore } from '../../src/eval/score-run.js';
 import { formatScore } from '../../src/eval/score-table.js';
 import { scoreDocument, summarizeFields } from '../../src/eval/score.js';
-import { documentResult, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
+import { documentResult, removeTempDirs, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
+
+afterAll(removeTempDirs);
 
 // A worked example, every figure computed by hand below. Invented data: a clinic-intake form read twice;
 // document a-002 failed in extract, so its fields count as absent.
