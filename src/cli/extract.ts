@@ -1,3 +1,4 @@
+import { stat } from 'node:fs/promises';
 import path from 'node:path';
 import type { Command } from 'commander';
 import { runBatch } from '../batch/run-batch.js';
@@ -28,7 +29,7 @@ export function registerExtractCommand(program: Command): void {
     .command('extract')
     .description('Read scanned forms into checked JSON records, a review queue and a summary')
     .argument('<inputs...>', 'image files (png, jpeg, tiff, webp), folders or glob patterns')
-    .requiredOption('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
+    .option('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .requiredOption('--out <dir>', 'results folder')
     .option('--resume', 'keep results of documents unchanged since the last run')
@@ -41,6 +42,9 @@ export function registerExtractCommand(program: Command): void {
       if (threads !== undefined && (!Number.isInteger(threads) || threads < 1)) {
         throw configError(undefined, `--threads: expected a whole number >= 1 but received "${opts.threads}"`);
       }
+      if (opts.schema.length === 0) throw configError(undefined, 'extract: --schema <file> is required (a schema file or a folder of them)');
+      const outStat = await stat(opts.out).catch(() => null);
+      if (outStat && !outStat.isDirectory()) throw configError(opts.out, 'the --out path exists and is not a folder');
       const schemas = await loadSchemas(opts.schema);
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
       for (const s of schemas) {

@@ -92,6 +92,16 @@ describe('formglean extract (end to end, real detector and OCR)', () => {
     expect(run.code).toBe(2);
     expect(run.stderr).toMatch(/none\.onnx/);
 
+    run = await runCli(['extract', page, '--out', path.join(work, 'o4')]);
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/--schema <file> is required/);
+
+    const notFolder = path.join(work, 'taken.txt');
+    await writeFile(notFolder, 'x');
+    run = await runCli(['extract', page, '--schema', SCHEMA, '--out', notFolder]);
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/taken\.txt: the --out path exists and is not a folder/);
+
     const fake = path.join(work, 'fake.onnx');
     await writeFile(fake, 'not a model');
     run = await runCli(['extract', page, '--schema', SCHEMA, '--model', fake, '--out', path.join(work, 'o3')]);
