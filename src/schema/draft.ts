@@ -1,7 +1,9 @@
 import type { Detection } from '../detect/types.js';
 import type { Box } from '../page/geometry.js';
 import { center, iou } from '../page/geometry.js';
+import { inkThreshold } from '../page/ink.js';
 import { cropGray } from '../page/raster.js';
+import { snapToFrame, snapToRules } from '../page/snap-box.js';
 import type { GrayImage } from '../page/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
@@ -306,7 +308,17 @@ export async function draftSchema(
   const used = new Set<string>();
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
-    const dets = suppressAcrossClasses(detections[pi] ?? []).sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
+    // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact.
+    const threshold = inkThreshold(page);
+    const dets = suppressAcrossClasses(detections[pi] ?? [])
+      .map((d) => ({
+        ...d,
+        box:
+          d.className === 'checkbox'
+            ? snapToFrame(page, d.box, { threshold })
+            : snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' }),
+      }))
+      .sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
     const phrases = findPhrases(page, { exclude: dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box) });
     const typical = phrases.length ? [...phrases.map((p) => p.charHeight)].sort((a, b) => a - b)[phrases.length >> 1] : 16;

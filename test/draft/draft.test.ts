@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import type { Detection } from '../../src/detect/types.js';
 import { expectedParts } from '../../src/locate/expected-boxes.js';
 import type { Box } from '../../src/page/geometry.js';
+import { iou } from '../../src/page/geometry.js';
 import { grayFromImage } from '../../src/page/raster.js';
 import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/schema/draft.js';
@@ -40,10 +41,11 @@ describe('draftSchema on the real blank form (areas measured on the form image)'
     const page = await grayFromImage('/work/shared/reference/real-forms/irs-w4-2025-page1-blank.png');
     const draft = await draftSchema([page], [areas.map(([b, c]) => det(b, c))], readLabel, { formName: 'w4-draft', referenceImages: ['w4.png'] });
     expect(() => FormSchema.parse(draft.source)).not.toThrow();
-    const byRegion = new Map(draft.fields.map((f) => [f.region.join(','), f]));
+    // Drafted regions are the given areas snapped onto the printed rules: find each by overlap.
+    const fieldAt = (b: Box) => draft.fields.find((f) => iou({ x: f.region[0], y: f.region[1], w: f.region[2], h: f.region[3] }, b) >= 0.8)!;
     let labelsRight = 0;
     for (const [b, , label] of areas) {
-      const f = byRegion.get([b.x, b.y, b.w, b.h].join(','))!;
+      const f = fieldAt(b);
       if (f.label && norm(f.label).startsWith(norm(label))) labelsRight++;
     }
     // Every label printed on the form is read; OCR may drop an apostrophe, which norm() ignores.
@@ -53,7 +55,7 @@ describe('draftSchema on the real blank form (areas measured on the form image)'
     expect(names).toContain('first_name_and_middle_initial');
     // Types that the label's words decide (date, signature, checkbox); the others stay text for a person to choose.
     for (const [b, , , type] of areas.filter(([, , , t]) => ['date', 'signature', 'checkbox'].includes(t))) {
-      expect(byRegion.get([b.x, b.y, b.w, b.h].join(','))!.type).toBe(type);
+      expect(fieldAt(b).type).toBe(type);
     }
   }, 60_000);
 });
@@ -68,7 +70,8 @@ describe('draftSchema on a demo blank with its areas given', () => {
     let labels = 0;
     let types = 0;
     for (const f of loaded.schema.fields) {
-      const d = draft.fields.find((x) => x.region.join(',') === f.region!.join(','));
+      const [x, y, w, h] = f.region!;
+      const d = draft.fields.find((g) => iou({ x: g.region[0], y: g.region[1], w: g.region[2], h: g.region[3] }, { x, y, w, h }) >= 0.8);
       if (d && d.label && norm(d.label) === norm(f.label ?? '')) labels++;
       if (d && d.type === f.type) types++;
     }
