@@ -3,7 +3,8 @@
  * edit as a user would (keep the drafted areas that stand for a real field part and give them its name; delete
  * the rest), then locate those parts on held-out filled pages by alignment alone and compare with the truth boxes.
  * The demo layouts were never used to train the detector (models/README.md).
- * Usage: npx tsx bench/draft-locate.ts LAYOUT DIR [--limit N] [--model M]
+ * Usage: npx tsx bench/draft-locate.ts LAYOUT DIR [--limit N] [--model M] [--refine]
+ *   --refine: touch up each region's place with refineRegion (src/page/local-refine.ts) after the global alignment.
  *   DIR: pages of LAYOUT from `formglean samples generate` with a held-out seed (>= 900000).
  * Prints: draft coverage (truth parts with a drafted area of IoU >= 0.5 on the blank), drafted areas deleted,
  * and the share of kept parts located with IoU >= 0.5 on the pages, with the median IoU.
@@ -16,6 +17,7 @@ import { DEFAULT_MODEL_PATH } from '../src/models.js';
 import { alignPage } from '../src/page/align.js';
 import type { Box } from '../src/page/geometry.js';
 import { invertAffine, iou, transformBox } from '../src/page/geometry.js';
+import { refineRegion } from '../src/page/local-refine.js';
 import { normalizePage } from '../src/page/normalize.js';
 import { grayFromImage } from '../src/page/raster.js';
 import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
@@ -31,6 +33,8 @@ const take = (flag: string): string | undefined => {
   return v;
 };
 const limit = Number(take('--limit') ?? Infinity);
+const refine = args.includes('--refine');
+if (refine) args.splice(args.indexOf('--refine'), 1);
 const model = take('--model') ?? DEFAULT_MODEL_PATH;
 const [layout, dir] = args;
 if (!layout || !dir) {
@@ -89,7 +93,8 @@ for (const f of files) {
     for (const [key, tb] of entries) {
       const region = kept.get(key);
       if (!region) continue;
-      const onSource = transformBox(toSource, transformBox(a.refToPage, region));
+      const onPage = refine ? refineRegion(n.image, blank, a.refToPage, region).box : transformBox(a.refToPage, region);
+      const onSource = transformBox(toSource, onPage);
       const o = iou(onSource, { x: tb[0], y: tb[1], w: tb[2], h: tb[3] });
       ious.push(o);
       worst.set(key, Math.min(worst.get(key) ?? 1, o));

@@ -2,7 +2,8 @@
  * Layout assignment and field location by alignment on labeled synthetic pages of the demo layouts.
  * Generate held-out pages first (seeds >= 900000), one folder per layout, e.g.
  *   formglean samples generate --layout clinic-intake --count 70 --seed 900300 --degrade heavy --fill mixed --out DIR
- * Usage: npx tsx bench/page-align.ts DIR [DIR ...]
+ * Usage: npx tsx bench/page-align.ts [--refine] DIR [DIR ...]
+ *   --refine: touch up each region with refineRegion (src/page/local-refine.ts) after the global alignment.
  * Each page is normalized, assigned to one of the demo schemas (schemas/*.yaml with blank references), aligned to it,
  * and every schema region carried back onto the source page is compared with the truth box (IoU).
  * Prints: layout assignment accuracy, score ranges (right vs wrong layouts), share of parts with IoU >= 0.5,
@@ -15,12 +16,14 @@ import { alignPage } from '../src/page/align.js';
 import { invertAffine, iou, transformBox } from '../src/page/geometry.js';
 import type { Box } from '../src/page/geometry.js';
 import { matchLayout } from '../src/page/layout-match.js';
+import { refineRegion } from '../src/page/local-refine.js';
 import type { LayoutCandidate } from '../src/page/layout-match.js';
 import { normalizePage } from '../src/page/normalize.js';
 import { grayFromImage } from '../src/page/raster.js';
 import { loadSchema, referenceImagePath } from '../src/schema/load.js';
 
-const dirs = process.argv.slice(2);
+const refine = process.argv.includes('--refine');
+const dirs = process.argv.slice(2).filter((a) => a !== '--refine');
 if (dirs.length === 0) {
   process.stderr.write('usage: npx tsx bench/page-align.ts DIR [DIR ...]\n');
   process.exit(2);
@@ -73,7 +76,8 @@ for (const dir of dirs) {
     for (const part of expectedParts(schema.schema.fields)) {
       const tb = truthBoxes.get(`${part.field.name}/${part.key}`);
       if (!tb || !part.region) continue;
-      const onSource = transformBox(toSource, transformBox(a.refToPage, part.region));
+      const onPage = refine ? refineRegion(n.image, cand.reference!, a.refToPage, part.region).box : transformBox(a.refToPage, part.region);
+      const onSource = transformBox(toSource, onPage);
       ious.push(iou(onSource, tb));
     }
   }
