@@ -98,10 +98,10 @@ export function snapToRules(img: GrayImage, box: Box, options: SnapOptions = {})
 
 /**
  * A checkbox's printed square: the hollow, roughly square ink component that overlaps the found box best (its
- * outer bounds), or the box itself when there is none. Letters beside a box are solid or not square; the frame
- * is one component with an empty middle.
+ * outer bounds), or null when there is none. Letters beside a box are solid or not square; the frame is one
+ * component with an empty middle.
  */
-export function snapToFrame(img: GrayImage, box: Box, options: Pick<SnapOptions, 'threshold'> = {}): Box {
+export function snapToFrame(img: GrayImage, box: Box, options: Pick<SnapOptions, 'threshold'> = {}): Box | null {
   const t = options.threshold ?? inkThreshold(img);
   const side = Math.sqrt(box.w * box.h);
   const pad = Math.ceil(0.5 * side);
@@ -125,5 +125,5 @@ export function snapToFrame(img: GrayImage, box: Box, options: Pick<SnapOptions,
       best = onPage;
     }
   }
-  return best ?? box;
+  return best;
 }

@@ -308,16 +308,17 @@ export async function draftSchema(
   const used = new Set<string>();
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
-    // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact.
+    // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact. On a blank
+    // form every checkbox is a printed square, so a checkbox detection without one is dropped.
     const threshold = inkThreshold(page);
     const dets = suppressAcrossClasses(detections[pi] ?? [])
-      .map((d) => ({
-        ...d,
-        box:
-          d.className === 'checkbox'
-            ? snapToFrame(page, d.box, { threshold })
-            : snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' }),
-      }))
+      .flatMap((d) => {
+        if (d.className !== 'checkbox') {
+          return [{ ...d, box: snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' }) }];
+        }
+        const frame = snapToFrame(page, d.box, { threshold });
+        return frame ? [{ ...d, box: frame }] : [];
+      })
       .sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
     const phrases = findPhrases(page, { exclude: dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box) });

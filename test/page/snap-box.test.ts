@@ -33,6 +33,12 @@ describe('snapToRules and snapToFrame on the real blank form', () => {
   it('finds the printed square of a checkbox from a box that takes in its label', async () => {
     const page = await realBlank();
     const s = snapToFrame(page, { x: 316, y: 436, w: 44, h: 28 });
-    expect(iou(s, { x: 319, y: 438, w: 24, h: 24 })).toBeGreaterThan(0.9);
+    expect(iou(s!, { x: 319, y: 438, w: 24, h: 24 })).toBeGreaterThan(0.9);
+  });
+
+  it('finds no square where a box was found over plain text', async () => {
+    const page = await realBlank();
+    // Over "Single or Married filing separately": letters, no printed square.
+    expect(snapToFrame(page, { x: 420, y: 440, w: 26, h: 26 })).toBeNull();
   });
 });
