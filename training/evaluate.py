@@ -128,6 +128,7 @@ def main(argv: list[str]) -> None:
     parser.add_argument("--data", nargs="+", required=True, help="COCO directories from `formglean samples generate`")
     parser.add_argument("--threshold", type=float, default=0.3, help="operating score threshold")
     parser.add_argument("--threads", type=int, default=2)
+    parser.add_argument("--sweep", type=float, nargs="*", default=[], help="also print precision/recall over all pages at these thresholds")
     parser.add_argument("--out", help="write the report as JSON here")
     args = parser.parse_args(argv)
     torch.set_num_threads(args.threads)
@@ -147,6 +148,9 @@ def main(argv: list[str]) -> None:
     if len(sets) > 1:
         reports["all"] = score(everything, args.threshold)
         print(f"== all\n{format_report(reports['all'])}")
+    for t in args.sweep:
+        m = score(everything, t)["classes"]
+        print(f"threshold {t:.2f}: " + "  ".join(f"{n} P {v['precision_at_threshold']:.3f} R {v['recall_at_threshold']:.3f}" for n, v in m.items()))
     if args.out:
         tmp = f"{args.out}.{os.getpid()}.tmp"
         with open(tmp, "w", encoding="utf-8") as fh:
