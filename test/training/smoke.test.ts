@@ -37,7 +37,7 @@ describe('training smoke run (train.py → export.py → onnxruntime-node)', () 
     await generateSamples({ layout: 'random', count: 3, seed: 4242, out: data, fill: 'mixed', degrade: 'light', dpi: 100, styles: 'train', format: 'png', upsideDownRate: 0 });
 
     const run = path.join(work, 'run');
-    const log = python(['training/train.py', '--data', data, '--epochs', '3', '--max-steps', '3', '--batch', '2', '--workers', '0', '--log-every', '1', '--seed', '3', '--out', run], 150_000);
+    const log = python(['training/train.py', '--data', data, '--epochs', '3', '--max-steps', '3', '--batch', '2', '--workers', '0', '--log-every', '1', '--seed', '3', '--box-balance', '--out', run], 150_000);
     expect(log).toMatch(/step 3\/3 /);
     const info = JSON.parse(readFileSync(path.join(run, 'train-info.json'), 'utf8'));
     expect(info.steps).toBe(3);
