@@ -50,12 +50,13 @@ export interface TextFieldReading {
 type VariantOptions = Pick<ReadTextOptions, 'mode' | 'allowed' | 'comb' | 'skew' | 'engine' | 'characterHeight'>;
 
 /**
- * Main recipe and second tries, by measurement on bench/cleanup-gain.ts: standard reads most fields; adaptive,
- * binary and keep_lines each read some that standard misses; for comb fields the cell-by-cell reading comes first
- * among the second tries.
+ * Main recipe and second tries, by measurement on bench/cleanup-gain.ts (held-out seeds 900100, heavy scans):
+ * standard read 96.3 % of typed fields exactly; adaptive read 96.2 % of comb fields (standard 88.5 %) and
+ * keep_lines 95.6 % of all, each catching fields standard misses; cell-by-cell reading of combs (69 %) stays a
+ * later try.
  */
 export function defaultVariants(comb: boolean): CleanupVariant[] {
-  return comb ? [STANDARD, COMB_CELLS, ADAPTIVE, BINARY] : [STANDARD, ADAPTIVE, BINARY, KEEP_LINES];
+  return comb ? [STANDARD, ADAPTIVE, COMB_CELLS, BINARY] : [STANDARD, ADAPTIVE, BINARY, KEEP_LINES];
 }
 
 /** Clean a crop with one variant and OCR it. */

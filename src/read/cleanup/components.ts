@@ -84,11 +84,34 @@ export interface ComponentFilterOptions {
 }
 
 /**
+ * Is a component a straight stroke? The centre of its ink in each row is fitted with a line x = a y + b (least
+ * squares); a ruled line, upright or slightly tilted, stays within 1 px of it (RMS), a handwritten stroke wanders.
+ */
+export function isStraight(labels: Int32Array, width: number, c: Component): boolean {
+  const ys: number[] = [], xs: number[] = [];
+  for (let y = c.box.y; y < c.box.y + c.box.h; y++) {
+    let sum = 0, n = 0;
+    for (let x = c.box.x; x < c.box.x + c.box.w; x++) if (labels[y * width + x] === c.id) { sum += x; n++; }
+    if (n) { ys.push(y); xs.push(sum / n); }
+  }
+  const n = ys.length;
+  if (n < 3) return true;
+  const my = ys.reduce((a, v) => a + v, 0) / n, mx = xs.reduce((a, v) => a + v, 0) / n;
+  let syy = 0, sxy = 0;
+  for (let i = 0; i < n; i++) { syy += (ys[i] - my) ** 2; sxy += (ys[i] - my) * (xs[i] - mx); }
+  const a = syy > 0 ? sxy / syy : 0;
+  let sse = 0;
+  for (let i = 0; i < n; i++) sse += (xs[i] - (mx + a * (ys[i] - my))) ** 2;
+  return Math.sqrt(sse / n) <= 1;
+}
+
+/**
  * Keep only components that can be characters. Limits are shares of the character height h (common practice for
  * printed text; the shares were checked on bench/cleanup-gain.ts): specks under (0.12 h)^2 pixels (a period or
  * i-dot of the same text is about (0.25 h)^2); slivers thinner than 0.15 h and longer than 2.5 h (rule remnants);
- * thin uprights (at most 0.3 h wide) taller than 1.7 h, or at most 0.5 h wide and taller than 2.5 h (box sides,
- * also slightly tilted ones: an "l" or "1" reaches about 1.45 x-height);
+ * straight thin uprights (at most 0.3 h wide) taller than 1.7 h, or at most 0.5 h wide and taller than 2.5 h
+ * (box sides, also slightly tilted ones: a printed "l" or "1" reaches about 1.45 x-height; a handwritten "l" or "S"
+ * may be taller but is not straight);
  * sparse shapes taller than 2 h that fill under a quarter of their bounds (box corners left by rule removal).
  */
 export function filterComponents(
@@ -107,7 +130,8 @@ export function filterComponents(
     let ok = c.area >= minArea;
     if (ok && (options.dropBorder ?? true) && c.touchesBorder) ok = false;
     if (ok && h > 0 && Math.min(b.w, b.h) <= thin && Math.max(b.w, b.h) > 2.5 * h) ok = false;
-    if (ok && h > 0 && ((b.w <= Math.max(3, 0.3 * h) && b.h > 1.7 * h) || (b.w <= 0.5 * h && b.h > 2.5 * h))) ok = false;
+    const upright = (b.w <= Math.max(3, 0.3 * h) && b.h > 1.7 * h) || (b.w <= 0.5 * h && b.h > 2.5 * h);
+    if (ok && h > 0 && upright && isStraight(labels, img.width, c)) ok = false;
     if (ok && h > 0 && b.h > 2 * h && c.area < 0.25 * b.w * b.h) ok = false;
     if (ok && inside) {
       const outside = b.x + b.w <= inside.x || b.x >= inside.x + inside.w || b.y + b.h <= inside.y || b.y >= inside.y + inside.h;
