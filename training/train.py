@@ -197,7 +197,7 @@ def main(argv: list[str]) -> None:
         num_workers=args.workers,
     )
     started = time.time()
-    window_start, sums = time.time(), np.zeros(3)
+    window_start, sums, window_steps = time.time(), np.zeros(3), 0
     net.train()
     for images, cls_t, box_t, cells_t in loader:
         lr = learning_rate(step, total_steps, args.lr)
@@ -219,15 +219,16 @@ def main(argv: list[str]) -> None:
                     e.copy_(p)
         step += 1
         sums += [float(total), float(cls_loss), float(box_loss)]
+        window_steps += 1
         elapsed = elapsed_before + time.time() - started
         if step % args.log_every == 0 or step == stop_at:
-            n = args.log_every if step % args.log_every == 0 else max(1, step % args.log_every)
+            n = window_steps
             per = (time.time() - window_start) / n
             log(
                 f"step {step}/{stop_at} epoch {step / steps_per_epoch:.2f} loss {sums[0] / n:.4f}"
                 f" (cls {sums[1] / n:.4f} box {sums[2] / n:.4f}) lr {lr:.2e} {per:.2f}s/step elapsed {elapsed / 60:.1f}min"
             )
-            window_start, sums = time.time(), np.zeros(3)
+            window_start, sums, window_steps = time.time(), np.zeros(3), 0
         if step % args.checkpoint_every == 0 or step % steps_per_epoch == 0 or step == stop_at:
             checkpoint(step, elapsed)
         if val_sets and (step % steps_per_epoch == 0 or step == stop_at):
