@@ -107,6 +107,8 @@ function solve6(H: Float64Array, g: Float64Array): Float64Array | null {
 interface EccResult {
   refToPage: Affine;
   rho: number;
+  /** Share of the reference map that fell inside the page at the last evaluation. */
+  coverage: number;
 }
 
 /**
@@ -126,6 +128,7 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
   // W(x) = init expressed on normalized coordinates X = (x - cx)/sc: u = A X + c'.
   let p = [init.a * sc, init.b * sc, init.a * cx + init.b * cy + init.c, init.d * sc, init.e * sc, init.d * cx + init.e * cy + init.f];
   let rho = -1;
+  let coverage = 0;
   const H = new Float64Array(36);
   const gW = new Float64Array(6);
   const gR = new Float64Array(6);
@@ -183,6 +186,7 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
         swr += iw * ir;
       }
     }
+    coverage = n / (rw * rh);
     if (n < 100) break;
     for (let r = 0; r < 6; r++) for (let c = 0; c < r; c++) H[r * 6 + c] = H[c * 6 + r];
     const mw = sw / n;
@@ -227,7 +231,7 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
   const b = p[1] / sc;
   const d = p[3] / sc;
   const e = p[4] / sc;
-  return { refToPage: { a, b, c: p[2] - a * cx - b * cy, d, e, f: p[5] - d * cx - e * cy }, rho };
+  return { refToPage: { a, b, c: p[2] - a * cx - b * cy, d, e, f: p[5] - d * cx - e * cy }, rho, coverage };
 }
 
 function factorFor(img: GrayImage, longSide: number): number {
@@ -251,13 +255,15 @@ function profileStart(page: GrayImage, reference: GrayImage, longSide: number, r
 
 /**
  * Register a page to the blank reference image. Returns the page -> reference transform, with score = the ECC
- * correlation (0..1 in practice) at the finest level. Pure.
+ * correlation at the finest level, lowered when under 90 % of the reference lies on the page, and 0 for an
+ * implausible fit. Pure.
  */
 export function alignByImage(page: GrayImage, reference: GrayImage, options: ImageAlignOptions = {}): Alignment {
   const levels = options.levels ?? [200, 400, 800];
   const iterations = options.iterations ?? 30;
   let refToPage = options.initialRefToPage ?? profileStart(page, reference, levels[0], options.scaleRange ?? [0.8, 1.25]).t;
   let rho = -1;
+  let coverage = 0;
   for (let li = 0; li < levels.length; li++) {
     const kr = factorFor(reference, levels[li]);
     const kp = factorFor(page, levels[li]);
@@ -269,6 +275,7 @@ export function alignByImage(page: GrayImage, reference: GrayImage, options: Ima
     if (!(res.rho > 0)) break;
     refToPage = fromLevel(res.refToPage, kr, kp);
     rho = res.rho;
+    coverage = res.coverage;
   }
   return {
     method: 'image',
@@ -276,6 +283,20 @@ export function alignByImage(page: GrayImage, reference: GrayImage, options: Ima
     refToPage,
     residual: null,
     inliers: 0,
-    score: Math.max(0, rho),
+    // A sheet shifted on the glass loses a few percent of the reference off the page edge; less than 90 % on the
+    // page lowers the score in proportion (a fit that hides the reference off the page is no fit).
+    score: plausible(refToPage, page, reference) ? Math.max(0, rho) * Math.min(1, coverage / 0.9) : 0,
   };
+}
+
+/**
+ * Whether a registration is a sheet's, not a degenerate fit: the correlation can also be high when the reference
+ * is squeezed into a blank corner of the page. Each axis's scale must lie within 0.7..1.4 of the size ratio of the
+ * two images and the two axes within 25 % of each other (a scanner keeps the aspect ratio; common practice).
+ */
+function plausible(t: Affine, page: GrayImage, reference: GrayImage): boolean {
+  const s0 = Math.max(page.width, page.height) / Math.max(reference.width, reference.height);
+  const sx = Math.hypot(t.a, t.d) / s0;
+  const sy = Math.hypot(t.b, t.e) / s0;
+  return sx >= 0.7 && sx <= 1.4 && sy >= 0.7 && sy <= 1.4 && Math.max(sx, sy) <= 1.25 * Math.min(sx, sy);
 }
