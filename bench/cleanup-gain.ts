@@ -9,6 +9,16 @@
  *
  * Without --data it generates the pages once into bench/out/cleanup-gain/ (held-out seeds: >= 900000 only).
  * Prints no field values (only counts and rates).
+ *
+ * Measured (`npx tsx bench/cleanup-gain.ts --count 12 --seed 900100`: random layouts, heavy scans, typed fills,
+ * 271 fields of which 26 comb; tuning was done on seeds 900050/900060/900210, not on this set), exact %:
+ *   plain crop 25.1 | +Otsu 25.8 | +rule/comb removal 30.3 | +component filter 49.8 | +text band 79.3 |
+ *   +comb compaction 79.0 | +upscale 81.2 | +trim/border 79.3 | +crop deskew 92.6 | +per-type characters 92.6 |
+ *   +gray levels of kept ink 96.3 (CER 0.4 %) | +second variant on invalid 96.7.
+ *   Leave-one-out from the full recipe: without deskew 81.9, components 85.2, band 84.1, compaction 91.5 (comb 38.5),
+ *   upscale 94.5, regray 92.6, rule removal 95.6. Combs: line reading 88.5 %, cell by cell 69.2 %, Sauvola 96.2 %.
+ *   Handwriting fills (seed 900200, 8 pages): plain 7.8 -> full 47.2 -> with second variants 51.4.
+ *   Light scans (seed 900300, 8 pages): plain 45.7 -> full 96.2 -> 96.7.
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
