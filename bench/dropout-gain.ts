@@ -1,7 +1,8 @@
 /**
  * OCR gain from form dropout on labeled synthetic pages of the demo layouts (held-out seeds >= 900000), e.g.
  *   formglean samples generate --layout marina-slip --count 67 --seed 900300 --degrade heavy --fill mixed --out DIR
- * Usage: npx tsx bench/dropout-gain.ts [--limit N] [--dilate R] DIR [DIR ...]
+ * Usage: npx tsx bench/dropout-gain.ts [--limit N] [--dilate R] [--global] DIR [DIR ...]
+ *   --global: mask by the global alignment only (no per-tile shifts).
  * Each page is normalized and aligned to its layout's blank; every text-read field with a written truth text is read
  * from the page as it is and from the page with the blank form dropped out, with the read stage's main cleanup
  * ("standard") and with no cleanup ("plain"). Prints exact-match rate and mean character error rate (Levenshtein
@@ -31,6 +32,8 @@ const opt = (name: string, fallback: number) => {
 };
 const limit = opt('--limit', Infinity);
 const dilate = opt('--dilate', 2);
+const local = !args.includes('--global');
+if (!local) args.splice(args.indexOf('--global'), 1);
 if (args.length === 0) {
   process.stderr.write('usage: npx tsx bench/dropout-gain.ts [--limit N] [--dilate R] DIR [DIR ...]\n');
   process.exit(2);
@@ -50,7 +53,7 @@ for (const dir of args) {
     const n = normalizePage(await grayFromImage(path.join(dir, truth.file)));
     const a = alignPage({ page: n.image, referenceSize: loaded.schema.pages[0], reference });
     const t0 = performance.now();
-    const dropped = dropoutForm(n.image, reference, a.refToPage, { dilate }).image;
+    const dropped = dropoutForm(n.image, reference, a.refToPage, { dilate, local }).image;
     dropMs += performance.now() - t0;
     pages++;
     for (const field of loaded.schema.fields) {
@@ -77,7 +80,7 @@ for (const dir of args) {
   }
 }
 await closeSharedOcrEngine();
-console.log(`pages ${pages}, fields read ${stats['page/standard'].n}, dilation ${dilate} px`);
+console.log(`pages ${pages}, fields read ${stats['page/standard'].n}, dilation ${dilate} px, ${local ? 'local shifts' : 'global alignment only'}`);
 for (const c of combos) {
   const s = stats[c];
   console.log(`${c.padEnd(18)} exact ${((100 * s.exact) / Math.max(1, s.n)).toFixed(1)} %  mean CER ${(s.cer / Math.max(1, s.n)).toFixed(3)}`);

@@ -1,5 +1,6 @@
 import type { Affine } from './geometry.js';
 import { invertAffine } from './geometry.js';
+import { refineRegion } from './local-refine.js';
 import type { GrayImage } from './raster.js';
 
 /**
@@ -20,6 +21,10 @@ export interface DropoutOptions {
    * rules are mid-gray and must go too; common practice).
    */
   referenceThreshold?: number;
+  /** Follow local misregistration with per-tile shifts (default true). */
+  local?: boolean;
+  /** Tile size for local shifts, reference pixels (default 200: 1 inch at 200 dpi, several fields per tile). */
+  tile?: number;
 }
 
 export interface Dropout {
@@ -115,17 +120,71 @@ function paperTone(page: GrayImage, block: number): { tone: Uint8Array; cols: nu
 }
 
 /**
+ * Local corrections to a global alignment: one shift per tile of the reference (found by refineRegion), so the
+ * mask follows a sheet that did not lie flat. Tiles without printed form, or whose match is weak, shift by 0.
+ */
+export interface ShiftField {
+  tile: number;
+  cols: number;
+  rows: number;
+  /** Per tile, [dx, dy] in reference pixels: page point of reference q is refToPage(q + shift). */
+  shifts: Float32Array;
+}
+
+export function shiftField(page: GrayImage, reference: GrayImage, refToPage: Affine, tile: number): ShiftField {
+  const cols = Math.ceil(reference.width / tile);
+  const rows = Math.ceil(reference.height / tile);
+  const shifts = new Float32Array(cols * rows * 2);
+  for (let r = 0; r < rows; r++) {
+    for (let c = 0; c < cols; c++) {
+      // The tile less a margin for the context refineRegion adds, kept inside the reference.
+      const m = 24;
+      const x = Math.max(m, c * tile);
+      const y = Math.max(m, r * tile);
+      const w = Math.min(reference.width - m, (c + 1) * tile) - x;
+      const h = Math.min(reference.height - m, (r + 1) * tile) - y;
+      if (w < 16 || h < 16) continue;
+      const res = refineRegion(page, reference, refToPage, { x, y, w, h }, { context: 0, search: 12 });
+      shifts[(r * cols + c) * 2] = res.shift[0];
+      shifts[(r * cols + c) * 2 + 1] = res.shift[1];
+    }
+  }
+  return { tile, cols, rows, shifts };
+}
+
+/** The shift at a reference point, interpolated bilinearly between tile centres. */
+function shiftAt(f: ShiftField, x: number, y: number, out: [number, number]): void {
+  const gx = Math.max(0, Math.min(f.cols - 1, x / f.tile - 0.5));
+  const gy = Math.max(0, Math.min(f.rows - 1, y / f.tile - 0.5));
+  const c0 = Math.floor(gx);
+  const r0 = Math.floor(gy);
+  const c1 = Math.min(f.cols - 1, c0 + 1);
+  const r1 = Math.min(f.rows - 1, r0 + 1);
+  const tx = gx - c0;
+  const ty = gy - r0;
+  for (let k = 0; k < 2; k++) {
+    const a = f.shifts[(r0 * f.cols + c0) * 2 + k];
+    const b = f.shifts[(r0 * f.cols + c1) * 2 + k];
+    const c = f.shifts[(r1 * f.cols + c0) * 2 + k];
+    const d = f.shifts[(r1 * f.cols + c1) * 2 + k];
+    out[k] = (a * (1 - tx) + b * tx) * (1 - ty) + (c * (1 - tx) + d * tx) * ty;
+  }
+}
+
+/**
  * Remove the printed form from an aligned page. `refToPage` maps reference coordinates to page coordinates
- * (Alignment.refToPage). Pure.
+ * (Alignment.refToPage). With `local` (default), the mask also follows per-tile shifts (shiftField). Pure.
  */
 export function dropoutForm(page: GrayImage, reference: GrayImage, refToPage: Affine, options: DropoutOptions = {}): Dropout {
   const mask = formMask(reference, options.dilate ?? 2, options.referenceThreshold ?? 200);
+  const field = (options.local ?? true) ? shiftField(page, reference, refToPage, options.tile ?? 200) : null;
   const t = invertAffine(refToPage);
   const out = new Uint8Array(page.data);
   const rw = reference.width;
   const rh = reference.height;
   const block = 32;
   const paper = paperTone(page, block);
+  const shift: [number, number] = [0, 0];
   let masked = 0;
   for (let y = 0; y < page.height; y++) {
     const yc = y + 0.5;
@@ -133,8 +192,16 @@ export function dropoutForm(page: GrayImage, reference: GrayImage, refToPage: Af
     let ry = t.d * 0.5 + t.e * yc + t.f;
     let o = y * page.width;
     for (let x = 0; x < page.width; x++, o++, rx += t.a, ry += t.d) {
-      const ix = Math.floor(rx);
-      const iy = Math.floor(ry);
+      let qx = rx;
+      let qy = ry;
+      if (field) {
+        // Page point p shows reference point q + shift, so the form ink under p is at q - shift.
+        shiftAt(field, rx, ry, shift);
+        qx -= shift[0];
+        qy -= shift[1];
+      }
+      const ix = Math.floor(qx);
+      const iy = Math.floor(qy);
       if (ix < 0 || iy < 0 || ix >= rw || iy >= rh) continue;
       if (mask[iy * rw + ix]) {
         out[o] = paper.tone[Math.floor(y / block) * paper.cols + Math.floor(x / block)];
