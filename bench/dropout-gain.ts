@@ -31,7 +31,7 @@ const opt = (name: string, fallback: number) => {
   return v;
 };
 const limit = opt('--limit', Infinity);
-const dilate = opt('--dilate', 2);
+const dilate = opt('--dilate', 3);
 const local = !args.includes('--global');
 if (!local) args.splice(args.indexOf('--global'), 1);
 if (args.length === 0) {
