@@ -14,6 +14,8 @@ export interface LocatedPart {
   detectionScore: number | null;
   /** The schema region carried onto the page, when there is one. */
   expected: Box | null;
+  /** The schema region on the reference page (reference pixels), when there is one. */
+  region: Box | null;
   reasons: string[];
 }
 
@@ -73,7 +75,7 @@ export function locateFields(
     const d = detectionFor.get(i);
     if (d !== undefined) {
       const box = options.preferRegion && expected ? expected : detections[d].box;
-      return { key: part.key, box, source: 'detection', detectionScore: detections[d].score, expected, reasons: [] };
+      return { key: part.key, box, source: 'detection', detectionScore: detections[d].score, expected, region: part.region, reasons: [] };
     }
     return fallback(part, expected);
   });
@@ -98,10 +100,12 @@ function locateUnique(
   if (!best) return fallback(part, expected);
   const reasons: string[] = [];
   if (expected && iou(expected, best.box) < options.disagreeBelow) reasons.push('location_disagrees');
-  return { key: part.key, box: best.box, source: 'detection', detectionScore: best.score, expected, reasons };
+  return { key: part.key, box: best.box, source: 'detection', detectionScore: best.score, expected, region: part.region, reasons };
 }
 
 function fallback(part: ExpectedPart, expected: Box | null): LocatedPart {
-  if (expected) return { key: part.key, box: expected, source: 'region', detectionScore: null, expected, reasons: ['region_fallback'] };
-  return { key: part.key, box: null, source: 'none', detectionScore: null, expected: null, reasons: ['not_found'] };
+  if (expected) {
+    return { key: part.key, box: expected, source: 'region', detectionScore: null, expected, region: part.region, reasons: ['region_fallback'] };
+  }
+  return { key: part.key, box: null, source: 'none', detectionScore: null, expected: null, region: null, reasons: ['not_found'] };
 }

@@ -18,6 +18,8 @@ import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
 import { buildFieldResult } from './field-result.js';
 import { readLocatedField } from './read-field.js';
+import { referencePageImage } from './reference-images.js';
+import { refineRegionParts } from './refine-regions.js';
 
 export interface ExtractOptions {
   /** One schema, or several: each document is assigned to the layout its first page aligns with best. */
@@ -123,6 +125,8 @@ async function extractForm(
       ...DEFAULT_LOCATE,
       preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
     });
+    const reference = await referencePageImage(loaded, p);
+    if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
     for (const lf of located) {
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
