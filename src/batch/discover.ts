@@ -4,7 +4,7 @@ import { glob } from 'tinyglobby';
 import { configError } from '../errors.js';
 
 /** File extensions taken from folders; a file named explicitly is always tried (and fails cleanly if not an image). */
-export const IMAGE_EXTENSIONS = ['png', 'jpg', 'jpeg', 'tif', 'tiff', 'webp'];
+export const IMAGE_EXTENSIONS = ['png', 'jpg', 'jpeg', 'tif', 'tiff', 'webp', 'pdf'];
 
 /**
  * Expand the command line's files, folders (searched recursively) and glob patterns into a sorted, de-duplicated list
@@ -29,7 +29,7 @@ export async function discoverInputs(inputs: readonly string[]): Promise<string[
     const cwd = st?.isDirectory() ? path.resolve(input) : process.cwd();
     const files = await glob(pattern, { cwd, absolute: true, onlyFiles: true, caseSensitiveMatch: false, dot: false });
     if (files.length === 0) {
-      throw configError(input, st?.isDirectory() ? 'folder holds no png, jpeg, tiff or webp files' : 'no such file, folder or matching files');
+      throw configError(input, st?.isDirectory() ? 'folder holds no png, jpeg, tiff, webp or pdf files' : 'no such file, folder or matching files');
     }
     for (const f of files) found.add(path.resolve(f));
   }

@@ -28,7 +28,7 @@ export function registerExtractCommand(program: Command): void {
   program
     .command('extract')
     .description('Read scanned forms into checked JSON records, a review queue and a summary')
-    .argument('<inputs...>', 'image files (png, jpeg, tiff, webp), folders or glob patterns')
+    .argument('<inputs...>', 'scans (png, jpeg, tiff, webp, pdf), folders or glob patterns')
     .option('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .requiredOption('--out <dir>', 'results folder')

@@ -4,6 +4,7 @@ import sharp, { type Metadata } from 'sharp';
 import { documentError } from '../errors.js';
 import type { GrayImage } from '../page/raster.js';
 import { fromRawBuffer } from '../page/raster.js';
+import { isPdf, renderPdfPages } from './pdf.js';
 
 export interface DecodeLimits {
   /** Largest page accepted, in pixels (guards against decompression bombs). */
@@ -27,7 +28,10 @@ export interface DecodedDocument {
 
 const FORMATS = new Set(['png', 'jpeg', 'tiff', 'webp']);
 
-/** Decode png, jpeg, tiff (multi-page) or webp into upright grayscale page rasters (EXIF orientation applied). */
+/**
+ * Decode png, jpeg, tiff (multi-page), webp or PDF (rendered at 200 DPI) into upright grayscale page rasters
+ * (EXIF orientation applied).
+ */
 export async function decodeDocument(
   input: string | Buffer,
   limits: DecodeLimits = DEFAULT_LIMITS,
@@ -50,15 +54,16 @@ export async function decodeDocument(
   }
   if (bytes.length === 0) throw documentError(source, 'empty file');
   const sha256 = createHash('sha256').update(bytes).digest('hex');
+  if (isPdf(bytes)) return { source, sha256, format: 'pdf', pages: await renderPdfPages(bytes, source, limits) };
 
   let meta: Metadata;
   try {
     meta = await sharp(bytes, { limitInputPixels: false }).metadata();
   } catch {
-    throw documentError(source, 'not a readable image (expected png, jpeg, tiff or webp)');
+    throw documentError(source, 'not a readable image (expected png, jpeg, tiff, webp or pdf)');
   }
   const format = meta.format ?? 'unknown';
-  if (!FORMATS.has(format)) throw documentError(source, `unsupported image format "${format}" (expected png, jpeg, tiff or webp)`);
+  if (!FORMATS.has(format)) throw documentError(source, `unsupported image format "${format}" (expected png, jpeg, tiff, webp or pdf)`);
   const width = meta.width ?? 0;
   const height = meta.pageHeight ?? meta.height ?? 0;
   if (width * height > limits.maxPixels) {

@@ -50,7 +50,7 @@ describe('document decoding', () => {
   it('gives one-line errors naming the file for text, truncated, empty and missing files', async () => {
     const text = path.join(dir, 'notes.jpg');
     await writeFile(text, 'this is a text file, not a photo\n');
-    await expect(decodeDocument(text)).rejects.toThrow(`${text}: not a readable image (expected png, jpeg, tiff or webp)`);
+    await expect(decodeDocument(text)).rejects.toThrow(`${text}: not a readable image (expected png, jpeg, tiff, webp or pdf)`);
     const truncated = path.join(dir, 'cut.png');
     const big = await sharp({ create: { width: 400, height: 400, channels: 3, background: 'white' } })
       .composite([{ input: Buffer.from('<svg width="400" height="400"><circle cx="200" cy="200" r="150"/></svg>') }])
