@@ -24,6 +24,8 @@ export interface BatchOptions {
   resume?: boolean;
   deskew?: boolean;
   orientation?: boolean;
+  /** Read text from the page with the printed form subtracted (see ExtractOptions.dropout). */
+  dropout?: boolean;
   today?: Date;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
@@ -105,6 +107,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
           documentId: id,
           deskew: options.deskew,
           orientation: options.orientation,
+          dropout: options.dropout,
           today: options.today,
         });
         for (const { result, pages } of forms) {

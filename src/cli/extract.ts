@@ -16,6 +16,7 @@ interface ExtractCliOptions {
   resume?: boolean;
   deskew: boolean;
   orientation: boolean;
+  dropout?: boolean;
   threads?: string;
   quiet?: boolean;
 }
@@ -35,6 +36,7 @@ export function registerExtractCommand(program: Command): void {
     .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--no-deskew', 'do not correct small page skew')
     .option('--no-orientation', 'do not look for pages turned by 90, 180 or 270 degrees')
+    .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
     .option('--threads <n>', 'onnxruntime intra-op threads')
     .option('--quiet', 'print only the summary')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
@@ -60,6 +62,7 @@ export function registerExtractCommand(program: Command): void {
           resume: opts.resume,
           deskew: opts.deskew,
           orientation: opts.orientation,
+          dropout: opts.dropout,
           onDocument: (e) => {
             if (opts.quiet) return;
             const name = path.relative(process.cwd(), e.file) || e.file;

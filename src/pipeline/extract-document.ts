@@ -6,6 +6,7 @@ import type { DecodeLimits } from '../input/decode.js';
 import { decodeDocument, DEFAULT_LIMITS } from '../input/decode.js';
 import { DEFAULT_LOCATE, locateFields } from '../locate/locate-fields.js';
 import type { Alignment } from '../page/alignment.js';
+import { dropoutForm } from '../page/dropout.js';
 import { invertAffine } from '../page/geometry.js';
 import type { NormalizedPage } from '../page/normalize.js';
 import { normalizePage } from '../page/normalize.js';
@@ -34,6 +35,13 @@ export interface ExtractOptions {
   /** "Today" for date range checks (default: now). */
   today?: Date;
   limits?: DecodeLimits;
+  /**
+   * Read text from the page with the printed form subtracted (labels, rules and comb boxes gone), where the schema
+   * names a blank reference image. Off by default: with the standard cleanup alone it lifts exact reads from 66.7 % to
+   * 70.0 % (bench/dropout-gain.ts, heavy pages), but with the full read stage on the bundled light scans it measured
+   * 91.8 % against 93.8 % without, at 3.8 s/page against 2.1 s. Worth trying on forms with heavy printed furniture.
+   */
+  dropout?: boolean;
 }
 
 export interface ExtractedDocument {
@@ -127,11 +135,13 @@ async function extractForm(
     });
     const reference = await referencePageImage(loaded, p);
     if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
+    const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
     for (const lf of located) {
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
       const outcome = await readLocatedField(lf, type, typeOptions, {
         page: normalized.image,
+        ocrPage,
         padding: schema.defaults.padding,
         typeContext,
       });

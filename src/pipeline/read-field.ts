@@ -16,6 +16,9 @@ export interface FieldReadOutcome {
 
 export interface ReadFieldContext {
   page: GrayImage;
+  /** The page with the printed form removed (dropout), read by OCR when given; marks and ink use `page`, since a
+   *  checkbox is found by its printed square. */
+  ocrPage?: GrayImage;
   padding: Padding;
   typeContext: FieldTypeContext;
 }
@@ -36,7 +39,7 @@ export async function readLocatedField(
     const box = located.parts[0]?.box;
     if (!box) return { reading: null, interpretation: null, details: {} };
     const hints = { ...(type.ocrDefaults?.(options) ?? {}), ...(field.ocr ?? {}) };
-    const read = await readTextField(ctx.page, box, {
+    const read = await readTextField(ctx.ocrPage ?? ctx.page, box, {
       padding,
       mode: hints.mode ?? 'line',
       allowed: hints.allowed,
