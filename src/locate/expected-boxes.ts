@@ -1,8 +1,6 @@
-import { fieldRegions } from '../schema/consistency.js';
+import { fieldParts } from '../schema/consistency.js';
 import type { FieldSpec } from '../schema/definition.js';
-import type { Affine, Box } from '../page/geometry.js';
-import { transformBox } from '../page/geometry.js';
-import { getFieldType } from '../fields/registry.js';
+import type { Box } from '../page/geometry.js';
 
 /** One box to find on the page: a field, or one box of a choice group. */
 export interface ExpectedPart {
@@ -13,27 +11,14 @@ export interface ExpectedPart {
   region: Box | null;
 }
 
-export function regionBox(r: readonly [number, number, number, number]): Box {
-  return { x: r[0], y: r[1], w: r[2], h: r[3] };
-}
-
 /** The parts of every field, with their reference regions. */
 export function expectedParts(fields: readonly FieldSpec[]): ExpectedPart[] {
-  const out: ExpectedPart[] = [];
-  for (const field of fields) {
-    const type = getFieldType(field.type);
-    const options = type.options.parse(field.options ?? {});
-    const parts = type.parts ? type.parts(options, field.name, field.region) : [{ key: field.name, region: field.region }];
-    const withRegion = new Map(fieldRegions(field).map((p) => [p.key, p.region]));
-    for (const p of parts) {
-      const r = withRegion.get(p.key);
-      out.push({ field, key: p.key, className: field.class, region: r ? regionBox(r) : null });
-    }
-  }
-  return out;
-}
-
-/** A reference region carried onto the page by the reference→page transform. */
-export function regionOnPage(part: ExpectedPart, refToPage: Affine): Box | null {
-  return part.region ? transformBox(refToPage, part.region) : null;
+  return fields.flatMap((field) =>
+    fieldParts(field).map(({ key, region: r }) => ({
+      field,
+      key,
+      className: field.class,
+      region: r ? { x: r[0], y: r[1], w: r[2], h: r[3] } : null,
+    })),
+  );
 }

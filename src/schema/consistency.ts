@@ -1,14 +1,19 @@
 import { getFieldType } from '../fields/registry.js';
+import type { FieldPart } from '../fields/types.js';
 import type { FieldSpec, FormSchema } from './definition.js';
 
 type RegionTuple = [number, number, number, number];
 
-/** Every region a field uses: its own, and its parts' (a choice group's boxes). */
-export function fieldRegions(field: FieldSpec): { key: string; region: RegionTuple }[] {
+/** The boxes a field has on the page: one keyed by the field name, or one per printed box of a choice group. */
+export function fieldParts(field: FieldSpec): FieldPart[] {
   const type = getFieldType(field.type);
   const options = type.options.parse(field.options ?? {});
-  const parts = type.parts ? type.parts(options, field.name, field.region) : [{ key: field.name, region: field.region }];
-  return parts.filter((p) => p.region !== undefined).map((p) => ({ key: p.key, region: p.region as RegionTuple }));
+  return type.parts ? type.parts(options, field.name, field.region) : [{ key: field.name, region: field.region }];
+}
+
+/** Every region a field uses: its own, and its parts' (a choice group's boxes). */
+export function fieldRegions(field: FieldSpec): { key: string; region: RegionTuple }[] {
+  return fieldParts(field).flatMap((p) => (p.region ? [{ key: p.key, region: p.region }] : []));
 }
 
 /**
