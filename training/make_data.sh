@@ -22,8 +22,8 @@ generate() { # name layout count seed [extra flags...]
 }
 
 if [[ "$what" == train || "$what" == all ]]; then
-  # 6 x 50 pages; scan resolution drawn by the generator (150..300 DPI under heavy degradation).
-  for seed in 1 2 3 4 5 6; do generate "train-$seed" random 50 "$seed" --styles train; done
+  # 8 x 50 pages; scan resolution drawn by the generator (150..300 DPI under heavy degradation).
+  for seed in 1 2 3 4 5 6 7 8; do generate "train-$seed" random 50 "$seed" --styles train; done
 fi
 if [[ "$what" == eval || "$what" == all ]]; then
   generate eval-heldout-styles random 30 900001 --styles heldout

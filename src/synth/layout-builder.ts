@@ -152,7 +152,9 @@ export class LayoutBuilder {
   }
 
   /** Printed instructions, wrapped to the page width. Returns false (and prints nothing) if they do not fit. */
-  paragraph(text: string, size = r(this.m.labelSize * 0.85)): boolean {
+  /** Body text across the usable width; `scale` is its size relative to the family's label size. */
+  paragraph(text: string, scale = 0.85): boolean {
+    const size = r(this.m.labelSize * scale);
     const words = text.split(/\s+/);
     const lines: string[] = [];
     let line = '';

@@ -2,6 +2,7 @@ import { NameBook, randomChecks, randomChoice, randomItem, randomTable } from '.
 import { LayoutBuilder, type ItemSpec } from './layout-builder.js';
 import type { Layout } from './layout-model.js';
 import type { Rng } from './prng.js';
+import { randomParagraph } from './prose.js';
 import type { StyleFamily } from './style-families.js';
 
 const TITLES = [
@@ -10,11 +11,6 @@ const TITLES = [
 ];
 const ORGS = ['Wrenfield Community Trust', 'Port Aldery Harbor Office', 'Cedarmouth Allotment Society', 'Maple Hollow Parish Hall', 'Brindle Bay Co-op'];
 const SECTIONS = ['Applicant', 'Contact details', 'Household', 'Vessel', 'Pet information', 'Billing', 'Preferences', 'Office use only', 'Emergency contact', 'Declaration'];
-const INSTRUCTIONS = [
-  'Please print clearly in black or blue ink. Fields marked with an asterisk are required. Return the completed form to the front desk or by post.',
-  'Complete one form per applicant. Incomplete forms may delay processing. Keep a copy for your records.',
-  'Write one character per box where boxes are shown. Use capital letters for names and registration numbers.',
-];
 
 /** Random partition of a row into `k` spans that sum to 1, each at least `min`. */
 function spans(rng: Rng, k: number, min = 0.22): number[] {
@@ -38,14 +34,17 @@ export function randomLayout(rng: Rng, family: StyleFamily): Layout {
   const names = new NameBook();
   const title = rng.pick(TITLES);
   b.title(title, rng.chance(0.6) ? rng.pick(ORGS) : undefined);
-  if (rng.chance(0.5)) b.paragraph(rng.pick(INSTRUCTIONS));
+  if (rng.chance(0.6)) b.paragraph(randomParagraph(rng), rng.range(0.7, 0.95));
   const sections = rng.shuffle(SECTIONS);
   let full = false;
   for (let s = 0; s < sections.length && !full && b.remaining > 200; s++) {
     b.section(sections[s]);
+    // Small print between fields: negatives for the detector (see prose.ts).
+    if (rng.chance(sections[s] === 'Declaration' ? 0.8 : 0.25)) b.paragraph(randomParagraph(rng, 3), rng.range(0.65, 0.9));
     const rows = rng.int(2, 5);
     for (let i = 0; i < rows && !full; i++) {
-      const kind = rng.weighted([['fields', 10], ['checks', 2], ['choice', 2], ['signature', 1], ['table', 1]] as const);
+      // Signatures are one per row at most, so they get a double weight to give the detector enough of them.
+      const kind = rng.weighted([['fields', 10], ['checks', 2], ['choice', 2], ['signature', 2], ['table', 1]] as const);
       let ok: boolean;
       if (kind === 'fields') ok = b.row(fieldRow(rng, names, family));
       else if (kind === 'checks') ok = b.checks(randomChecks(rng, names));
