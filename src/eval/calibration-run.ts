@@ -5,7 +5,9 @@ import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
 import type { DocumentResult } from '../result/document.js';
 import { parseSchemaText } from '../schema/load.js';
 import { proposeThresholds, type CalibrationSample, type ThresholdProposal } from './calibration-thresholds.js';
-import { withReviewThresholds } from './calibration-schema.js';
+import { roundLevel, withReviewThresholds } from './calibration-schema.js';
+import { applyIsotonic } from './calibration.js';
+import type { FieldCalibration } from './calibration-thresholds.js';
 import { DEFAULT_BINS } from './reliability.js';
 import { loadScoreInputs } from './score-run.js';
 import { scoreAll, type ScoredField } from './score.js';
@@ -38,10 +40,31 @@ export function calibrationSamples(items: readonly ScoredField[]): CalibrationSa
   return items.map((i) => ({
     field: i.field,
     type: i.type,
-    confidence: i.confidence,
+    confidence: i.rawConfidence,
     correct: i.correct,
     decidable: i.decidable,
   }));
+}
+
+/**
+ * What goes into the calibrated schema for one field: its confidence map (the isotonic levels as [from, accuracy]
+ * points) and its review threshold expressed on the mapped scale, i.e. the accuracy of the lowest accepted level.
+ * Levels of a fit strictly increase, so "mapped confidence >= that accuracy" accepts exactly the levels the
+ * proposal accepted (two levels that round to the same 4 decimals become one). A field with nothing accepted keeps threshold 1 (everything under certainty to review).
+ */
+export function schemaCalibration(f: FieldCalibration): { map: [number, number][]; threshold: number } {
+  // Under the lowest confidence the fit saw, nothing is known: accuracy 0 there sends such a reading to review,
+  // as the raw threshold (never below the lowest level's lower end) does.
+  const map: [number, number][] = f.map.steps[0].from > 0 ? [[0, 0]] : [];
+  for (const step of f.map.steps) {
+    const point: [number, number] = [roundLevel(step.from), roundLevel(step.value)];
+    const last = map[map.length - 1];
+    if (last && last[1] === point[1]) continue; // equal after rounding: one level
+    if (last && last[0] === point[0]) last[1] = point[1];
+    else map.push(point);
+  }
+  const threshold = f.accepted > 0 ? roundLevel(applyIsotonic(f.map, f.threshold)) : 1;
+  return { map, threshold };
 }
 
 export function defaultCalibratedPath(schemaFile: string): string {
@@ -81,15 +104,18 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
   const proposal = proposeThresholds(samples, { targetError, minSamples });
 
   const current = new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold]));
-  const thresholds = new Map(proposal.fields.map((f) => [f.field, f.threshold]));
+  const written = new Map(proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
+  const thresholds = new Map([...written].map(([k, v]) => [k, v.threshold]));
+  const maps = new Map([...written].map(([k, v]) => [k, v.map]));
   const note =
     ` reviewThreshold values calibrated by formglean calibrate on ${truth.size} labeled documents, ` +
-    `target error among accepted fields ${targetError} (${new Date().toISOString().slice(0, 10)})`;
+    `target error among accepted fields ${targetError} (${new Date().toISOString().slice(0, 10)}); with a ` +
+    `confidenceMap the threshold is on the mapped scale (the accuracy observed at the raw confidence)`;
   const out = options.out ?? defaultCalibratedPath(options.schema);
   if (path.resolve(out) === path.resolve(options.schema)) {
     throw configError(out, 'refusing to overwrite the input schema; name another --out');
   }
-  const copy = withReviewThresholds(text, options.schema, thresholds, note);
+  const copy = withReviewThresholds(text, options.schema, thresholds, note, maps);
   parseSchemaText(copy, out); // the copy must still be a valid schema before it is written
   await writeFileAtomic(out, copy);
   if (options.map) {

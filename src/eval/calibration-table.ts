@@ -1,4 +1,4 @@
-import type { CalibrateRun } from './calibration-run.js';
+import { schemaCalibration, type CalibrateRun } from './calibration-run.js';
 import { formatRows } from './score-table.js';
 
 const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
@@ -6,7 +6,8 @@ const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
 /** Per-field thresholds, before and after, with what the proposal accepts on the calibration data. */
 export function formatCalibration(run: CalibrateRun): string {
   const p = run.proposal;
-  const header = ['field', 'type', 'fit', 'samples', 'errors', 'was', 'proposed', 'accepted', 'err|acc'];
+  // "from raw": the raw confidence where acceptance starts; "threshold": the same on the mapped scale, as written.
+  const header = ['field', 'type', 'fit', 'samples', 'errors', 'was', 'from raw', 'threshold', 'accepted', 'err|acc'];
   const rows = p.fields.map((f) => [
     f.field,
     f.type,
@@ -15,6 +16,7 @@ export function formatCalibration(run: CalibrateRun): string {
     String(f.errors),
     run.current.get(f.field)?.toFixed(4) ?? '-',
     f.threshold.toFixed(4),
+    schemaCalibration(f).threshold.toFixed(4),
     pct(f.acceptedShare),
     f.accepted > 0 ? pct(f.acceptedErrors / f.accepted, 2) : '-',
   ]);

@@ -90,8 +90,8 @@ export function fitMaps(
  * decreasing p makes the running mean of (1 - p) nondecreasing, so the largest acceptable set under a mean-error
  * bound is a prefix of that order (exchange argument: swapping an accepted atom for a rejected one of higher p
  * lowers the error). Within a field, higher levels have higher p, and ties in p go to the level with the higher
- * confidence, so a field's accepted atoms are its top levels: a threshold, set at the lowest confidence of the
- * lowest accepted level. With a map of the field's own, expected errors equal observed errors on the
+ * confidence, so a field's accepted atoms are its top levels: a threshold, set at the lower end of the lowest
+ * accepted level (Atom.from). With a map of the field's own, expected errors equal observed errors on the
  * calibration data (each level's value is its observed accuracy).
  */
 export function proposeThresholds(samples: readonly CalibrationSample[], options: ProposalOptions): ThresholdProposal {
@@ -101,7 +101,10 @@ export function proposeThresholds(samples: readonly CalibrationSample[], options
 
   interface Atom {
     field: string;
-    /** Lowest confidence among this atom's samples: where the threshold goes if the atom is the last accepted. */
+    /** Where the threshold goes if the atom is the last accepted: the lower end of its level in the map, i.e. the
+     *  lowest confidence of any sample the map was fitted on at that level. With a pooled map that is lower than
+     *  the field's own lowest sample, which with a handful of samples per field would send an unseen but equally
+     *  good reading to review. */
     from: number;
     p: number;
     count: number;
@@ -113,12 +116,8 @@ export function proposeThresholds(samples: readonly CalibrationSample[], options
     const level = stepIndex(map, s.confidence);
     const key = `${s.field}\u0000${level}`;
     const a = atoms.get(key);
-    if (a) {
-      a.count++;
-      a.from = Math.min(a.from, s.confidence);
-    } else {
-      atoms.set(key, { field: s.field, from: s.confidence, p: map.steps[level].value, count: 1 });
-    }
+    if (a) a.count++;
+    else atoms.set(key, { field: s.field, from: map.steps[level].from, p: map.steps[level].value, count: 1 });
   }
   const order = [...atoms.values()].sort(
     (a, b) => b.p - a.p || b.from - a.from || (a.field < b.field ? -1 : a.field > b.field ? 1 : 0),

@@ -18,6 +18,9 @@ export interface ScoredField {
   /** Status the tool gave; "absent" when the result has no such field or the document has no result. */
   status: FieldStatus | 'absent';
   confidence: number;
+  /** The confidence before the schema's confidence map (equal to `confidence` without a map): what calibration
+   *  fits, so that refitting a calibrated schema does not map twice. */
+  rawConfidence: number;
   correct: boolean;
   /** Accepted without review: status "accepted". Everything else waits for (or went through) a person. */
   accepted: boolean;
@@ -66,6 +69,7 @@ function scoreField(doc: string, truth: TruthDocument, t: TruthField, r: FieldRe
     type: t.type,
     status,
     confidence: r?.confidence ?? 0,
+    rawConfidence: r?.scores?.raw ?? r?.confidence ?? 0,
     correct,
     accepted: status === 'accepted',
     decidable: status === 'accepted' || (status === 'review' && !r?.reasons.some((c) => c.startsWith('ambiguous_'))),

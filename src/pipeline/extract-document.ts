@@ -1,13 +1,14 @@
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { Detection, Detector } from '../detect/types.js';
+import { legibilityFactors } from '../fields/legibility.js';
 import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
 import { decodeDocument, DEFAULT_LIMITS } from '../input/decode.js';
-import { DEFAULT_LOCATE, locateFields } from '../locate/locate-fields.js';
+import { DEFAULT_LOCATE, locateFields, type LocatedField } from '../locate/locate-fields.js';
 import type { Alignment } from '../page/alignment.js';
 import { dropoutForm } from '../page/dropout.js';
-import { invertAffine } from '../page/geometry.js';
+import { invertAffine, type Affine } from '../page/geometry.js';
 import type { NormalizedPage } from '../page/normalize.js';
 import { normalizePage } from '../page/normalize.js';
 import type { GrayImage } from '../page/raster.js';
@@ -18,7 +19,7 @@ import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
 import { buildFieldResult } from './field-result.js';
-import { readLocatedField } from './read-field.js';
+import { readLocatedField, type FieldReadOutcome } from './read-field.js';
 import { referencePageImage } from './reference-images.js';
 import { refineRegionParts } from './refine-regions.js';
 
@@ -114,6 +115,7 @@ async function extractForm(
   const typeContext = { today: options.today ?? new Date() };
   const fields: FieldResult[] = [];
   const pages: PageResult[] = [];
+  const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine }[] = [];
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
@@ -145,14 +147,20 @@ async function extractForm(
         padding: schema.defaults.padding,
         typeContext,
       });
-      const threshold = lf.field.reviewThreshold ?? schema.defaults.reviewThreshold;
-      const field = buildFieldResult(lf, outcome, threshold, toSource);
-      if (choice.status === 'unknown_layout') {
-        field.reasons.push('unknown_layout');
-        if (field.status === 'accepted') field.status = 'review';
-      }
-      fields.push(field);
+      read.push({ lf, outcome, toSource });
     }
+  }
+
+  // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
+  const legibility = legibilityFactors(read.map((r) => r.outcome));
+  for (const [i, { lf, outcome, toSource }] of read.entries()) {
+    const threshold = lf.field.reviewThreshold ?? schema.defaults.reviewThreshold;
+    const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i]);
+    if (choice.status === 'unknown_layout') {
+      field.reasons.push('unknown_layout');
+      if (field.status === 'accepted') field.status = 'review';
+    }
+    fields.push(field);
   }
 
   // Fields on pages the file does not have (a form cut short).

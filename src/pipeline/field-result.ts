@@ -33,6 +33,7 @@ export function buildFieldResult(
   outcome: FieldReadOutcome,
   reviewThreshold: number,
   toSource: Affine,
+  legibility = 1,
 ): FieldResult {
   const { field } = located;
   const { source, detectionScore } = overallSource(located);
@@ -43,6 +44,8 @@ export function buildFieldResult(
     interpretation: outcome.interpretation,
     reviewThreshold,
     required: field.required,
+    confidenceMap: field.confidenceMap,
+    legibility,
   });
   const locateReasons = located.parts.flatMap((p) => p.reasons).filter((r) => r !== 'not_found');
   const reasons = [...new Set([...score.reasons, ...locateReasons])];

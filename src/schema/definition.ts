@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { confidenceMapProblem } from '../fields/confidence-map.js';
 import { FIELD_TYPES, fieldTypeNames } from '../fields/registry.js';
 
 /** [x, y, w, h] in pixels of the reference page. */
@@ -18,6 +19,18 @@ export const OcrHints = z
   })
   .strict();
 
+export const ConfidenceMap = z
+  .array(z.tuple([z.number().min(0).max(1), z.number().min(0).max(1)]))
+  .min(1)
+  .superRefine((points, ctx) => {
+    const problem = confidenceMapProblem(points);
+    if (problem) ctx.addIssue({ code: 'custom', message: problem });
+  })
+  .describe(
+    'Raw confidence to observed accuracy, [[x, y], ...]: from raw confidence x upward the field is right with ' +
+      'probability y (written by formglean calibrate). With a map, reviewThreshold applies to the mapped confidence.',
+  );
+
 const slug = z.string().regex(/^[a-z][a-z0-9_]*$/, 'a lower-case name: letters, digits and _');
 
 const FieldCommon = {
@@ -30,6 +43,7 @@ const FieldCommon = {
   required: z.boolean().default(false),
   ocr: OcrHints.optional(),
   reviewThreshold: z.number().min(0).max(1).optional().describe('Confidence under which the field goes to review'),
+  confidenceMap: ConfidenceMap.optional(),
 };
 
 function fieldVariant(t: (typeof FIELD_TYPES)[number]) {

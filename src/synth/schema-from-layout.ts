@@ -1,4 +1,5 @@
 import { boxTuple, unionBox } from './box-tuple.js';
+import type { DemoCalibration } from './demo-calibration.js';
 import type { Layout, LayoutField } from './layout-model.js';
 
 /** A field entry of the form-schema file, as plain data (validated by FormSchema where it is used). */
@@ -11,6 +12,8 @@ export interface SchemaFieldValue {
   region: [number, number, number, number];
   required?: boolean;
   options?: Record<string, unknown>;
+  reviewThreshold?: number;
+  confidenceMap?: [number, number][];
 }
 
 export interface SchemaValue {
@@ -37,11 +40,15 @@ function fieldValue(f: LayoutField): SchemaFieldValue {
  * The form-schema value for a layout: the reference page, and for every field its type, options, detector class
  * and region on the reference page (a choice group's region bounds its boxes; each box is listed with its value).
  */
-export function schemaFromLayout(layout: Layout, description = `${layout.title} (invented demo form)`): SchemaValue {
+export function schemaFromLayout(
+  layout: Layout,
+  description = `${layout.title} (invented demo form)`,
+  calibration?: DemoCalibration,
+): SchemaValue {
   return {
     $schema: './form-schema.json',
     form: { name: layout.name, version: '1', description },
     pages: [{ width: layout.width, height: layout.height, image: `${layout.name}.blank.png` }],
-    fields: layout.fields.map(fieldValue),
+    fields: layout.fields.map((f) => ({ ...fieldValue(f), ...(calibration?.fields[f.name] ?? {}) })),
   };
 }

@@ -94,10 +94,13 @@ describe('calibrate: thresholds into a copy of the schema', () => {
     expect(copy).toContain('# Invented demo form for tests');
     expect(copy).toMatch(/calibrated by formglean calibrate on 10 labeled documents/);
     const parsed = parseSchemaText(copy, run.out);
-    expect(parsed.fields.map((f) => [f.name, f.reviewThreshold])).toEqual([
-      ['owner_name', 0.5],
-      ['visit_date', 0.55],
+    // Written on the mapped scale: each field gets its map (the levels above as [from, accuracy]) and the
+    // accuracy of its lowest accepted level as the threshold.
+    expect(parsed.fields.map((f) => [f.name, f.reviewThreshold, f.confidenceMap])).toEqual([
+      ['owner_name', 0.5, [[0, 0], [0.5, 0.5], [0.7, 1]]],
+      ['visit_date', 1, [[0, 0], [0.55, 1]]], // accuracy 0 under the lowest confidence the fit saw
     ]);
+    expect(copy).toContain('confidenceMap: [[0, 0], [0.5, 0.5], [0.7, 1]]');
     expect(await readFile(schemaFile, 'utf8')).toBe(SCHEMA_YAML); // the input is left alone
     const map = JSON.parse(await readFile(mapFile, 'utf8'));
     expect(map.fields.owner_name.steps.map((s: { value: number }) => s.value)).toEqual([0, 0.5, 1]);
@@ -109,9 +112,11 @@ describe('calibrate: thresholds into a copy of the schema', () => {
     const jsonFile = path.join(dir, 'clinic.json');
     await writeFile(jsonFile, JSON.stringify(parseSchemaText(SCHEMA_YAML, 'inline'), null, 2));
     const run = await runCalibrate({ results: resultsDir, truth: truthDir, schema: jsonFile, targetError: 0, minSamples: 1 });
-    // Target 0: only the accuracy-1 levels: owner_name from 0.7, visit_date from 0.55.
+    // Target 0: only the accuracy-1 levels: owner_name from raw 0.7, visit_date from raw 0.55; both at mapped 1.
+    expect(run.proposal.fields.map((f) => f.threshold)).toEqual([0.7, 0.55]);
     const copy = JSON.parse(await readFile(run.out, 'utf8'));
-    expect(copy.fields.map((f: { reviewThreshold: number }) => f.reviewThreshold)).toEqual([0.7, 0.55]);
+    expect(copy.fields.map((f: { reviewThreshold: number }) => f.reviewThreshold)).toEqual([1, 1]);
+    expect(copy.fields[0].confidenceMap).toEqual([[0, 0], [0.5, 0.5], [0.7, 1]]);
 
     const bad = path.join(dir, 'bad.yaml');
     await writeFile(bad, SCHEMA_YAML.replace('type: date', 'type: calendar'));

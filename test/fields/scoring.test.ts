@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { applyConfidenceMap } from '../../src/fields/confidence-map.js';
+import { legibilityFactors, LEGIBILITY_KNEE } from '../../src/fields/legibility.js';
 import { scoreField, ocrFactor, locationFactor } from '../../src/fields/scoring.js';
 import type { Reading } from '../../src/fields/types.js';
 import { readAs } from './context.js';
@@ -70,5 +72,41 @@ describe('scoreField', () => {
     const s = scoreField({ ...base, detectionScore: 7, source: 'detection', reading: text([['x', 3]]), interpretation: readAs('text', 'x') });
     expect(s.confidence).toBeLessThanOrEqual(1);
     expect(s.confidence).toBeGreaterThanOrEqual(0);
+  });
+
+  it('states the mapped confidence when the schema gives a map, keeping the raw one in scores', () => {
+    const map: [number, number][] = [[0.2, 0.1], [0.6, 0.7], [0.9, 0.995]];
+    // Step semantics, by hand: below the first point its level; from each point up to the next, that point's level.
+    expect([0, 0.2, 0.59, 0.6, 0.89, 0.9, 1].map((x) => applyConfidenceMap(map, x))).toEqual([0.1, 0.1, 0.1, 0.7, 0.7, 0.995, 0.995]);
+    const reading = text([['Ashgrove', 0.95]]);
+    const interp = readAs('text', 'Ashgrove');
+    const plain = scoreField({ ...base, detectionScore: 0.9, source: 'detection', reading, interpretation: interp });
+    const mapped = scoreField({ ...base, reviewThreshold: 0.99, confidenceMap: map, detectionScore: 0.9, source: 'detection', reading, interpretation: interp });
+    expect(mapped.scores.raw).toBe(plain.confidence);
+    expect(mapped.confidence).toBe(0.995);
+    expect(mapped.status).toBe('accepted'); // the threshold is on the mapped scale
+    expect(mapped.reasons).not.toContain('low_ocr_confidence');
+    const weak = scoreField({ ...base, reviewThreshold: 0.99, confidenceMap: map, detectionScore: 0.9, source: 'detection', reading: text([['Ashgrove', 0.7]]), interpretation: interp });
+    expect([weak.confidence, weak.status]).toEqual([0.7, 'review']);
+  });
+
+  it('scales OCR fields, and only them, by how well the rest of the form read', () => {
+    const ocr = (c: number) => ({ reading: text([['Word', c]]), interpretation: readAs('text', 'Word') });
+    const tick = { reading: { kind: 'marks' as const, marks: [{ key: 'x', fillRatio: 0.3, boxFound: true }] }, interpretation: readAs('text', 'x') };
+    const blank = { reading: text([]), interpretation: readAs('text', '') };
+    // Leave-one-out means by hand: others of the first are 0.5, 0.6, 0.7 -> 0.6 / 0.85.
+    const f = legibilityFactors([ocr(0.9), ocr(0.5), ocr(0.6), ocr(0.7), tick, blank]);
+    expect(f[0]).toBeCloseTo(0.6 / LEGIBILITY_KNEE, 9);
+    expect(f[1]).toBeCloseTo(Math.min(1, (0.9 + 0.6 + 0.7) / 3 / LEGIBILITY_KNEE), 9);
+    expect(f.slice(4)).toEqual([1, 1]);
+    // A form that reads well costs nothing; with fewer than three other OCR fields there is nothing to judge by.
+    expect(legibilityFactors([ocr(0.95), ocr(0.9), ocr(0.92), ocr(0.88)])).toEqual([1, 1, 1, 1]);
+    expect(legibilityFactors([ocr(0.95), ocr(0.2), ocr(0.2)])).toEqual([1, 1, 1]);
+    const reading = text([['Ashgrove', 0.95]]);
+    const interp = readAs('text', 'Ashgrove');
+    const full = scoreField({ ...base, detectionScore: 0.9, source: 'detection', reading, interpretation: interp });
+    const dim = scoreField({ ...base, legibility: 0.5, detectionScore: 0.9, source: 'detection', reading, interpretation: interp });
+    expect(dim.confidence).toBeCloseTo(full.confidence * 0.5, 2);
+    expect(dim.scores.legibility).toBe(0.5);
   });
 });

@@ -53,6 +53,15 @@ describe('schema file loading', () => {
     expect(() => parseSchemaText(outside, 's.yaml')).toThrow(/fields\[1\]: region .* must lie inside the 1700x2200 reference page/);
   });
 
+  it('takes a confidence map and refuses one that is not a nondecreasing step function, in one line', () => {
+    const ok = GOOD.replace('required: true }', 'required: true, confidenceMap: [[0.3, 0.5], [0.8, 0.99]] }');
+    expect(parseSchemaText(ok, 's.yaml').fields[0].confidenceMap).toEqual([[0.3, 0.5], [0.8, 0.99]]);
+    const down = GOOD.replace('required: true }', 'required: true, confidenceMap: [[0.3, 0.9], [0.8, 0.5]] }');
+    expect(() => parseSchemaText(down, 's.yaml')).toThrow(/^s\.yaml: fields\[0\]\.confidenceMap: point 1: y must not decrease \(0\.9 then 0\.5\) \(found \[\[0\.3,0\.9\],\[0\.8,0\.5\]\]\)$/);
+    const back = GOOD.replace('required: true }', 'required: true, confidenceMap: [[0.8, 0.5], [0.3, 0.9]] }');
+    expect(() => parseSchemaText(back, 's.yaml')).toThrow(/confidenceMap: point 1: x must increase/);
+  });
+
   it('reports YAML syntax errors with a line number, and a missing file plainly', async () => {
     expect(() => parseSchemaText('form: [unclosed\nfields: x', 'broken.yaml')).toThrow(/^broken\.yaml: not valid YAML\/JSON/);
     await expect(loadSchema('/nonexistent/schema.yaml')).rejects.toThrow('/nonexistent/schema.yaml: schema file not found');

@@ -1,0 +1,25 @@
+import type { DemoLayoutName } from './layouts.js';
+import calibration from './demo/calibration.json' with { type: 'json' };
+
+/**
+ * Confidence maps and review thresholds of the demo schemas, fitted by formglean's own calibration on the
+ * development set (`npx tsx bench/eval-set.ts --set dev --write-schemas`, which writes demo/calibration.json and
+ * regenerates the schemas). Kept as data beside the layouts so that `npm run samples:make` writes the same schemas.
+ */
+export interface FieldCalibrationValue {
+  reviewThreshold: number;
+  confidenceMap: [number, number][];
+}
+
+export interface DemoCalibration {
+  /** Where the values come from, written as a comment at the top of the schema. */
+  note: string;
+  fields: Record<string, FieldCalibrationValue>;
+}
+
+export const DEMO_CALIBRATION_FILE = 'src/synth/demo/calibration.json';
+
+export function demoCalibration(name: DemoLayoutName): DemoCalibration | undefined {
+  // Checked where it ends up: the schema written from it is parsed with FormSchema like any other.
+  return (calibration as unknown as Partial<Record<string, DemoCalibration>>)[name];
+}
