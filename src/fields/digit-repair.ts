@@ -57,3 +57,28 @@ export function repairLetters(s: string): Repaired {
 export function repairPenalty(repairs: number): number {
   return Math.pow(0.85, repairs);
 }
+
+/** Digits OCR puts in place of letters inside words, with the letter at a word's start and inside it. */
+const LETTER_IN_WORD: Readonly<Record<string, [string, string]>> = { '0': ['O', 'o'], '1': ['I', 'l'], '5': ['S', 's'] };
+
+/**
+ * Free text: a word of letters holding one stray 0, 1 or 5 ("0ld", "Sm1th") had that digit read for a letter
+ * (common practice in OCR post-correction, from memory). Only words of three or more letters (or a leading digit
+ * before two or more lower-case ones) with at least two lower-case letters and a single digit are touched, so codes
+ * ("B12", "A1K", "k1a"), numbers and ordinals ("1st", "5th") stay as read.
+ */
+export function repairWordLetters(s: string): Repaired {
+  let repairs = 0;
+  const text = s.replace(/[\p{L}0-9]+/gu, (word) => {
+    const digits = word.replace(/\D/g, '');
+    const lower = (word.match(/\p{Ll}/gu) ?? []).length;
+    if (digits.length !== 1 || lower < 2 || !(digits in LETTER_IN_WORD) || /^\d+(st|nd|rd|th)$/i.test(word)) return word;
+    const i = word.search(/\d/);
+    // Three letters at least, or a capital's place before two lower-case ones ("0ld"): "k1a" may be a code.
+    if (word.length - 1 < 3 && !(i === 0 && /^\d\p{Ll}+$/u.test(word))) return word;
+    repairs++;
+    const [start, inside] = LETTER_IN_WORD[digits];
+    return word.slice(0, i) + (i === 0 ? start : inside) + word.slice(i + 1);
+  });
+  return { text, repairs };
+}

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import type { FieldType, Interpretation } from './types.js';
 import { emptyInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
+import { repairPenalty, repairWordLetters } from './digit-repair.js';
 
 const options = z
   .object({
@@ -49,7 +50,12 @@ export const textField: FieldType<TextOptions> = {
   reader: 'ocr',
   ocrDefaults: () => ({ mode: 'line' }),
   interpret(reading, o) {
-    return check(applyCase(ocrText(reading, 'text'), o.case), o);
+    const read = ocrText(reading, 'text');
+    // A pattern describes a code, where digits among letters are meant; free text gets its stray digits repaired.
+    const repaired = o.pattern === undefined ? repairWordLetters(read) : { text: read, repairs: 0 };
+    const r = check(applyCase(repaired.text, o.case), o);
+    if (repaired.repairs === 0 || r.outcome === 'empty') return r;
+    return { ...r, confidence: r.confidence * repairPenalty(repaired.repairs), reasons: [...r.reasons, 'repaired_letters'] };
   },
   parseCorrection(text, o) {
     return check(applyCase(text.replace(/\s+/g, ' ').trim(), o.case), o);

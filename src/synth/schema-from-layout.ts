@@ -12,6 +12,7 @@ export interface SchemaFieldValue {
   region: [number, number, number, number];
   required?: boolean;
   options?: Record<string, unknown>;
+  ocr?: { mode: 'block' };
   reviewThreshold?: number;
   confidenceMap?: [number, number][];
 }
@@ -28,6 +29,8 @@ function fieldValue(f: LayoutField): SchemaFieldValue {
   const region = boxTuple(unionBox(f.slots.map((s) => s.box)));
   const out: SchemaFieldValue = { name: f.name, label: f.label.replace(/\s*[*:]$/, ''), type: f.type, class: f.slots[0].class, page: 0, region };
   if (f.required) out.required = true;
+  // Several ruled lines hold several lines of text: OCR must read them all, not pick the one holding a value.
+  if (f.slots[0].look.kind === 'lines') out.ocr = { mode: 'block' };
   const options =
     f.type === 'choice'
       ? { multiple: Boolean(f.options.multiple), choices: f.slots.map((s) => ({ value: s.key, region: boxTuple(s.box) })) }

@@ -30,4 +30,16 @@ describe('text', () => {
     expect(readAs('text', '70 4 4 1 2').value).toBe('70 4 4 1 2');
     expect(correctAs('text', '  Juniper  Ashgrove ').value).toBe('Juniper Ashgrove');
   });
+
+  it('repairs a stray 0, 1 or 5 inside a word of free text, not codes, numbers or ordinals (common practice)', () => {
+    const old = readAs('text', '1781 0ld Mill Road');
+    expect([old.value, old.reasons]).toEqual(['1781 Old Mill Road', ['repaired_letters']]);
+    expect(old.confidence).toBeCloseTo(0.85, 9);
+    expect(readAs('text', '14 Wi1low Lane').value).toBe('14 Willow Lane');
+    for (const kept of ['Plot B12', 'A1K 0V6', 'k1a', '21st Street', 'Sea Biscuit 11', '12 Elm Road']) {
+      expect(readAs('text', kept)).toMatchObject({ value: kept, reasons: [] });
+    }
+    // With a pattern the field holds a code: digits among letters are meant.
+    expect(readAs('text', 'ab0cd', { pattern: '[a-z0-9]+' }).value).toBe('ab0cd');
+  });
 });
