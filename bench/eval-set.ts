@@ -36,11 +36,10 @@ import { generateSamples } from '../src/synth/generate.js';
 import type { FillMode } from '../src/synth/fill.js';
 import type { LayoutName } from '../src/synth/layouts.js';
 import type { DegradeLevel } from '../src/synth/scan-params.js';
-import { calibrationSamples, DEFAULT_MIN_SAMPLES, schemaCalibration } from '../src/eval/calibration-run.js';
-import { proposeThresholds } from '../src/eval/calibration-thresholds.js';
+import { calibrateItems, calibrationSamples, DEFAULT_MIN_SAMPLES, schemaCalibration } from '../src/eval/calibration-run.js';
 import { DEMO_CALIBRATION_FILE, type DemoCalibration } from '../src/synth/demo-calibration.js';
 import { evaluateOnHoldout, type HoldoutEvaluation } from '../src/eval/calibration-holdout.js';
-import { withReviewThresholds } from '../src/eval/calibration-schema.js';
+import { withCalibration } from '../src/eval/calibration-schema.js';
 import { DEFAULT_BINS } from '../src/eval/reliability.js';
 import { runScore } from '../src/eval/score-run.js';
 import { formatScore } from '../src/eval/score-table.js';
@@ -172,60 +171,51 @@ process.stdout.write(formatScore(scored.report, { perField: args['per-field'] })
 // 4. calibration figures. The evaluation set is measured with thresholds fitted on the development set's pages of
 // the same layout and fill (--fit-from, default out/dev: run `npm run eval -- --set dev` first); the development
 // set itself is fitted on its even pages and measured on its odd ones.
-const truthIndex = new Map<string, number>();
-for (const layout of layouts) {
-  for (const fill of fills) {
-    const dir = path.join(samplesDir, `${layout}-${fill}`, 'truth');
-    for (const f of await readdir(dir)) {
-      if (!f.endsWith('.json')) continue;
-      const t = JSON.parse(await readFile(path.join(dir, f), 'utf8')) as { index: number };
-      truthIndex.set(path.parse(f).name, t.index);
-    }
-  }
-}
 let fitItems: ScoredField[] | null = null;
+/** Page index of each document, for the even/odd split of the development set. */
+const truthIndex = new Map<string, number>();
 if (set === 'eval') {
   const fitDir = path.resolve(args['fit-from'] ?? 'out/dev');
   const inputs = await loadScoreInputs(path.join(fitDir, 'results'), path.join(fitDir, 'samples')).catch((e: Error) => {
     throw new Error(`${e.message} (the evaluation set's thresholds are fitted on the development set: run npm run eval -- --set dev first)`);
   });
   fitItems = scoreAll({ ...inputs, bins: DEFAULT_BINS }).items;
+} else {
+  for (const layout of layouts) {
+    for (const fill of fills) {
+      const dir = path.join(samplesDir, `${layout}-${fill}`, 'truth');
+      for (const f of await readdir(dir)) {
+        if (!f.endsWith('.json')) continue;
+        const t = JSON.parse(await readFile(path.join(dir, f), 'utf8')) as { index: number };
+        truthIndex.set(path.parse(f).name, t.index);
+      }
+    }
+  }
 }
+const isEven = (i: ScoredField): boolean => (truthIndex.get(i.document) ?? 0) % 2 === 0;
 // Typed and handwriting-style fills are calibrated apart, as an office calibrates on its own forms: a person's
 // hand and a printer's type give confidences of different worth.
 const holdouts: Record<string, HoldoutEvaluation> = {};
-const current = new Map<string, Map<string, number>>();
 for (const layout of layouts) {
   const schemaFile = path.join('schemas', `${layout}.yaml`);
-  const { schema } = await loadSchema(schemaFile);
-  current.set(layout, new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold])));
   const text = await readFile(schemaFile, 'utf8');
   for (const fill of fills) {
     const items = scored.items.filter((i) => i.layout === layout && i.fill === fill);
-    const fit = fitItems
-      ? fitItems.filter((i) => i.layout === layout && i.fill === fill)
-      : items.filter((i) => (truthIndex.get(i.document) ?? 0) % 2 === 0);
-    const held = fitItems ? items : items.filter((i) => (truthIndex.get(i.document) ?? 0) % 2 === 1);
+    const fit = fitItems ? fitItems.filter((i) => i.layout === layout && i.fill === fill) : items.filter(isEven);
+    const held = fitItems ? items : items.filter((i) => !isEven(i));
     if (fit.length === 0) throw new Error(`no ${layout} ${fill} fields to fit thresholds on`);
+    // The schema's own thresholds are on its maps' scale, not comparable with raw confidences: a field the fit
+    // never saw goes to review.
     const h = evaluateOnHoldout(calibrationSamples(fit), calibrationSamples(held), {
       targetError,
       minSamples: DEFAULT_MIN_SAMPLES,
       bins: DEFAULT_BINS,
-      fallbackThreshold: (f) => current.get(layout)!.get(f) ?? schema.defaults.reviewThreshold,
+      fallbackThreshold: () => 1,
     });
     holdouts[`${layout}/${fill}`] = h;
     const note = ` reviewThreshold values calibrated by npm run eval on the ${fitItems ? '' : 'even '}${fill} pages of the development set, target ${targetError}`;
-    const written = new Map(h.proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
-    await writeFileAtomic(
-      path.join(outDir, 'calibrated', `${layout}-${fill}.yaml`),
-      withReviewThresholds(
-        text,
-        schemaFile,
-        new Map([...written].map(([k, v]) => [k, v.threshold])),
-        note,
-        new Map([...written].map(([k, v]) => [k, v.map])),
-      ),
-    );
+    const fields = new Map(h.proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
+    await writeFileAtomic(path.join(outDir, 'calibrated', `${layout}-${fill}.yaml`), withCalibration(text, schemaFile, fields, note));
   }
 }
 
@@ -236,21 +226,13 @@ if (args['write-schemas']) {
   const calibration: Record<string, DemoCalibration> = {};
   for (const layout of layouts) {
     const { schema } = await loadSchema(path.join('schemas', `${layout}.yaml`));
-    const known = new Set(schema.fields.map((f) => f.name));
-    const items = scored.items.filter((i) => i.layout === layout && known.has(i.field));
-    const proposal = proposeThresholds(calibrationSamples(items), { targetError, minSamples: DEFAULT_MIN_SAMPLES });
-    const documents = new Set(items.map((i) => i.document)).size;
+    const fit = calibrateItems(scored.items.filter((i) => i.layout === layout), schema, { targetError, minSamples: DEFAULT_MIN_SAMPLES });
     calibration[layout] = {
       note:
-        `confidenceMap and reviewThreshold fitted on ${documents} development-set documents (seeds ` +
+        `confidenceMap and reviewThreshold fitted on ${fit.documents} development-set documents (seeds ` +
         `${fills.map((f) => SEEDS[layout][f]).join(', ')}; ${fills.join(' and ')} fills; target error among accepted ` +
         `fields ${targetError}) by npx tsx bench/eval-set.ts --set dev --write-schemas`,
-      fields: Object.fromEntries(
-        proposal.fields.map((f) => {
-          const c = schemaCalibration(f);
-          return [f.field, { reviewThreshold: c.threshold, confidenceMap: c.map }];
-        }),
-      ),
+      fields: Object.fromEntries(fit.fields),
     };
   }
   // One map point per line is unreadable: keep each [x, y] pair on one line.
@@ -271,10 +253,11 @@ const r = scored.report;
 const held = (fill?: string): HoldoutEvaluation[] =>
   Object.entries(holdouts).filter(([k]) => !fill || k.endsWith(`/${fill}`)).map(([, h]) => h);
 const sum = (hs: HoldoutEvaluation[], pick: (h: HoldoutEvaluation) => number): number => hs.reduce((a, h) => a + pick(h), 0);
-const outcome = (hs: HoldoutEvaluation[], which: 'before' | 'after'): string => {
-  const n = sum(hs, (h) => h[which].samples);
-  const acc = sum(hs, (h) => h[which].accepted);
-  const err = sum(hs, (h) => h[which].acceptedErrors);
+/** Error among accepted / accepted share of the fitted thresholds on the held-out pages. */
+const outcome = (hs: HoldoutEvaluation[]): string => {
+  const n = sum(hs, (h) => h.after.samples);
+  const acc = sum(hs, (h) => h.after.accepted);
+  const err = sum(hs, (h) => h.after.acceptedErrors);
   return `${pct(acc ? err / acc : null)} / ${pct(n ? acc / n : null, 1)}`;
 };
 /** What the schemas in schemas/ did: statuses as extract gave them (their own maps and thresholds). */
@@ -295,12 +278,12 @@ const rows: [string, string, string][] = [
   ['ECE of stated confidence (all fields)', '<= 0.03', r.overall.ece?.toFixed(4) ?? '-'],
   ...fills.map((f): [string, string, string] => [`ECE of stated confidence (${f})`, '', r.byFill[f]?.ece?.toFixed(4) ?? '-']),
   ['demo schemas as shipped: error among accepted / accepted (typed)', '', shipped('typed')],
-  [`thresholds fitted on ${fitName} typed pages: error among accepted / accepted`, '<= 0.5% / >= 85%', outcome(held('typed'), 'after')],
+  [`thresholds fitted on ${fitName} typed pages: error among accepted / accepted`, '<= 0.5% / >= 85%', outcome(held('typed'))],
   [`ECE after maps fitted on ${fitName} typed pages`, '', pooledEce(held('typed'))],
   ...(fills.includes('handwriting')
     ? ([
         ['demo schemas as shipped (handwriting)', '', shipped('handwriting')],
-        [`thresholds fitted on ${fitName} handwriting pages`, '', outcome(held('handwriting'), 'after')],
+        [`thresholds fitted on ${fitName} handwriting pages`, '', outcome(held('handwriting'))],
         [`ECE after maps fitted on ${fitName} handwriting pages`, '', pooledEce(held('handwriting'))],
         ['handwriting-style fields, exact match (reported, no target)', '', pct(r.byFill.handwriting?.exactMatch)],
         ['handwriting-style CER / tick accuracy', '', `${pct(r.byFill.handwriting?.cer)} / ${pct(r.byFill.handwriting?.markAccuracy)}`],
@@ -328,7 +311,6 @@ await writeJsonAtomic(path.join(outDir, 'eval-report.json'), {
     Object.entries(holdouts).map(([l, h]) => [
       l,
       {
-        before: h.before,
         after: h.after,
         eceRaw: h.eceRaw,
         eceCalibrated: h.eceCalibrated,

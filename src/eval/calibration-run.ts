@@ -4,10 +4,15 @@ import { configError } from '../errors.js';
 import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
 import type { DocumentResult } from '../result/document.js';
 import { parseSchemaText } from '../schema/load.js';
-import { proposeThresholds, type CalibrationSample, type ThresholdProposal } from './calibration-thresholds.js';
-import { roundLevel, withReviewThresholds } from './calibration-schema.js';
+import type { FormSchema } from '../schema/definition.js';
+import {
+  proposeThresholds,
+  type CalibrationSample,
+  type FieldCalibration,
+  type ThresholdProposal,
+} from './calibration-thresholds.js';
+import { roundLevel, withCalibration, type SchemaFieldCalibration } from './calibration-schema.js';
 import { applyIsotonic } from './calibration.js';
-import type { FieldCalibration } from './calibration-thresholds.js';
 import { DEFAULT_BINS } from './reliability.js';
 import { loadScoreInputs } from './score-run.js';
 import { scoreAll, type ScoredField } from './score.js';
@@ -26,6 +31,8 @@ export interface CalibrateOptions {
 
 export interface CalibrateRun {
   proposal: ThresholdProposal;
+  /** What was written into the schema copy, per field. */
+  fields: Map<string, SchemaFieldCalibration>;
   /** Thresholds the schema had before, per field (field's own, else the schema default). */
   current: Map<string, number>;
   out: string;
@@ -48,11 +55,11 @@ export function calibrationSamples(items: readonly ScoredField[]): CalibrationSa
 
 /**
  * What goes into the calibrated schema for one field: its confidence map (the isotonic levels as [from, accuracy]
- * points) and its review threshold expressed on the mapped scale, i.e. the accuracy of the lowest accepted level.
- * Levels of a fit strictly increase, so "mapped confidence >= that accuracy" accepts exactly the levels the
- * proposal accepted (two levels that round to the same 4 decimals become one). A field with nothing accepted keeps threshold 1 (everything under certainty to review).
+ * points) and its review threshold on the mapped scale, i.e. the accuracy of the lowest accepted level. Levels of a
+ * fit strictly increase, so "mapped confidence >= that accuracy" accepts exactly the levels the proposal accepted
+ * (two levels that round to the same 4 decimals become one). A field with nothing accepted gets threshold 1.
  */
-export function schemaCalibration(f: FieldCalibration): { map: [number, number][]; threshold: number } {
+export function schemaCalibration(f: FieldCalibration): SchemaFieldCalibration {
   // Under the lowest confidence the fit saw, nothing is known: accuracy 0 there sends such a reading to review,
   // as the raw threshold (never below the lowest level's lower end) does.
   const map: [number, number][] = f.map.steps[0].from > 0 ? [[0, 0]] : [];
@@ -63,8 +70,24 @@ export function schemaCalibration(f: FieldCalibration): { map: [number, number][
     if (last && last[0] === point[0]) last[1] = point[1];
     else map.push(point);
   }
-  const threshold = f.accepted > 0 ? roundLevel(applyIsotonic(f.map, f.threshold)) : 1;
-  return { map, threshold };
+  const reviewThreshold = f.accepted > 0 ? roundLevel(applyIsotonic(f.map, f.threshold)) : 1;
+  return { reviewThreshold, confidenceMap: map };
+}
+
+/**
+ * Fit maps and thresholds for one schema on scored labeled fields (those of fields the schema has): the proposal,
+ * what to write per field, and how many documents it rests on.
+ */
+export function calibrateItems(
+  items: readonly ScoredField[],
+  schema: FormSchema,
+  options: { targetError: number; minSamples: number },
+): { proposal: ThresholdProposal; fields: Map<string, SchemaFieldCalibration>; documents: number } {
+  const known = new Set(schema.fields.map((f) => f.name));
+  const used = items.filter((i) => known.has(i.field));
+  const proposal = proposeThresholds(calibrationSamples(used), options);
+  const fields = new Map(proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
+  return { proposal, fields, documents: new Set(used.map((i) => i.document)).size };
 }
 
 export function defaultCalibratedPath(schemaFile: string): string {
@@ -99,14 +122,9 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
     throw configError(options.results, `no results of form "${schema.form.name}" with matching truth in ${options.truth}`);
   }
   const { items } = scoreAll({ truth, results, failed: new Set(), bins: DEFAULT_BINS });
-  const known = new Set(schema.fields.map((f) => f.name));
-  const samples = calibrationSamples(items.filter((i) => known.has(i.field)));
-  const proposal = proposeThresholds(samples, { targetError, minSamples });
+  const { proposal, fields } = calibrateItems(items, schema, { targetError, minSamples });
 
   const current = new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold]));
-  const written = new Map(proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
-  const thresholds = new Map([...written].map(([k, v]) => [k, v.threshold]));
-  const maps = new Map([...written].map(([k, v]) => [k, v.map]));
   const note =
     ` reviewThreshold values calibrated by formglean calibrate on ${truth.size} labeled documents, ` +
     `target error among accepted fields ${targetError} (${new Date().toISOString().slice(0, 10)}); with a ` +
@@ -115,7 +133,7 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
   if (path.resolve(out) === path.resolve(options.schema)) {
     throw configError(out, 'refusing to overwrite the input schema; name another --out');
   }
-  const copy = withReviewThresholds(text, options.schema, thresholds, note, maps);
+  const copy = withCalibration(text, options.schema, fields, note);
   parseSchemaText(copy, out); // the copy must still be a valid schema before it is written
   await writeFileAtomic(out, copy);
   if (options.map) {
@@ -129,5 +147,5 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
       ),
     });
   }
-  return { proposal, current, out, documents: truth.size };
+  return { proposal, fields, current, out, documents: truth.size };
 }

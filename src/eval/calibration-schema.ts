@@ -9,43 +9,49 @@ export function roundThreshold(t: number): number {
   return Math.floor(t * 1e4 + 1e-9) / 1e4;
 }
 
+/** What calibration writes into a schema for one field. With the map, the threshold is on the mapped scale. */
+export interface SchemaFieldCalibration {
+  reviewThreshold: number;
+  confidenceMap: [number, number][];
+}
+
 /** Map points as written to a schema: 4 decimals, so a threshold written the same way equals a level exactly. */
 export function roundLevel(v: number): number {
   return Math.round(v * 1e4) / 1e4;
 }
 
 /**
- * A copy of the schema text with `reviewThreshold` (and, when given, `confidenceMap`) set on the named fields. YAML keeps its comments and layout
- * (the `yaml` Document API edits the syntax tree in place) and gains a note saying where the thresholds came
- * from; JSON is rewritten with two-space indentation. Fields not named keep what they had.
+ * A copy of the schema text with `reviewThreshold` and `confidenceMap` set on the named fields. YAML keeps its
+ * comments and layout (the `yaml` Document API edits the syntax tree in place) and gains a note saying where the
+ * values came from; JSON is rewritten with two-space indentation. Fields not named keep what they had.
  */
-export function withReviewThresholds(
+export function withCalibration(
   text: string,
   file: string,
-  thresholds: ReadonlyMap<string, number>,
+  fields: ReadonlyMap<string, SchemaFieldCalibration>,
   note: string,
-  maps?: ReadonlyMap<string, [number, number][]>,
 ): string {
   const isJson = file.toLowerCase().endsWith('.json') || text.trimStart().startsWith('{');
   if (isJson) {
-    const obj = JSON.parse(text) as { fields?: { name?: unknown; reviewThreshold?: number; confidenceMap?: unknown }[] };
+    const obj = JSON.parse(text) as { fields?: ({ name?: unknown } & Partial<SchemaFieldCalibration>)[] };
     if (!Array.isArray(obj.fields)) throw configError(file, 'fields: expected a list of fields');
     for (const f of obj.fields) {
-      if (typeof f.name !== 'string') continue;
-      if (thresholds.has(f.name)) f.reviewThreshold = roundThreshold(thresholds.get(f.name)!);
-      if (maps?.has(f.name)) f.confidenceMap = maps.get(f.name);
+      const c = typeof f.name === 'string' ? fields.get(f.name) : undefined;
+      if (!c) continue;
+      f.reviewThreshold = roundThreshold(c.reviewThreshold);
+      f.confidenceMap = c.confidenceMap;
     }
     return JSON.stringify(obj, null, 2) + '\n';
   }
   const doc = parseDocument(text);
-  const fields = doc.get('fields');
-  if (!isSeq(fields)) throw configError(file, 'fields: expected a list of fields');
-  fields.items.forEach((item, i) => {
-    if (!isMap(item)) return;
-    const name = item.get('name');
-    if (typeof name !== 'string') return;
-    if (thresholds.has(name)) doc.setIn(['fields', i, 'reviewThreshold'], roundThreshold(thresholds.get(name)!));
-    if (maps?.has(name)) doc.setIn(['fields', i, 'confidenceMap'], doc.createNode(maps.get(name), { flow: true }));
+  const list = doc.get('fields');
+  if (!isSeq(list)) throw configError(file, 'fields: expected a list of fields');
+  list.items.forEach((item, i) => {
+    const name = isMap(item) ? item.get('name') : undefined;
+    const c = typeof name === 'string' ? fields.get(name) : undefined;
+    if (!c) return;
+    doc.setIn(['fields', i, 'reviewThreshold'], roundThreshold(c.reviewThreshold));
+    doc.setIn(['fields', i, 'confidenceMap'], doc.createNode(c.confidenceMap, { flow: true }));
   });
   const before = doc.commentBefore ? `${doc.commentBefore}\n` : '';
   doc.commentBefore = `${before} ${note.trim()}`;

@@ -1,4 +1,4 @@
-import { schemaCalibration, type CalibrateRun } from './calibration-run.js';
+import type { CalibrateRun } from './calibration-run.js';
 import { formatRows } from './score-table.js';
 
 const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
@@ -16,7 +16,7 @@ export function formatCalibration(run: CalibrateRun): string {
     String(f.errors),
     run.current.get(f.field)?.toFixed(4) ?? '-',
     f.threshold.toFixed(4),
-    schemaCalibration(f).threshold.toFixed(4),
+    run.fields.get(f.field)!.reviewThreshold.toFixed(4),
     pct(f.acceptedShare),
     f.accepted > 0 ? pct(f.acceptedErrors / f.accepted, 2) : '-',
   ]);

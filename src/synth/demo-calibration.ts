@@ -1,3 +1,4 @@
+import type { SchemaFieldCalibration } from '../eval/calibration-schema.js';
 import type { DemoLayoutName } from './layouts.js';
 import calibration from './demo/calibration.json' with { type: 'json' };
 
@@ -6,15 +7,10 @@ import calibration from './demo/calibration.json' with { type: 'json' };
  * development set (`npx tsx bench/eval-set.ts --set dev --write-schemas`, which writes demo/calibration.json and
  * regenerates the schemas). Kept as data beside the layouts so that `npm run samples:make` writes the same schemas.
  */
-export interface FieldCalibrationValue {
-  reviewThreshold: number;
-  confidenceMap: [number, number][];
-}
-
 export interface DemoCalibration {
   /** Where the values come from, written as a comment at the top of the schema. */
   note: string;
-  fields: Record<string, FieldCalibrationValue>;
+  fields: Record<string, SchemaFieldCalibration>;
 }
 
 export const DEMO_CALIBRATION_FILE = 'src/synth/demo/calibration.json';

@@ -151,8 +151,10 @@ export class LayoutBuilder {
     }
   }
 
-  /** Printed instructions, wrapped to the page width. Returns false (and prints nothing) if they do not fit. */
-  /** Body text across the usable width; `scale` is its size relative to the family's label size. */
+  /**
+   * Printed instructions wrapped to the usable width; `scale` is their size relative to the family's label size.
+   * Returns false (and prints nothing) if they do not fit.
+   */
   paragraph(text: string, scale = 0.85): boolean {
     const size = r(this.m.labelSize * scale);
     const words = text.split(/\s+/);
