@@ -1,5 +1,5 @@
 /**
- * The page stage on the real blank form (IRS Form W-4 2025 page 1, public domain; /work/shared/reference/real-forms)
+ * The page stage on the real blank form (IRS Form W-4 2025 page 1, public domain; a copy with its source note is in test/fixtures/real-forms)
  * filled with invented entries and "scanned" by libvips: scaled, shifted, turned (small angle plus 0 or 180°),
  * blurred and JPEG-compressed. Truth geometry comes from the libvips operations, not from our code.
  * Usage: npx tsx bench/real-form-page.ts

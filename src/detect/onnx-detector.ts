@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
-import { InferenceSession, Tensor } from 'onnxruntime-node';
+import { InferenceSession, Tensor } from './onnx-runtime.js';
 import { configError, oneLine } from '../errors.js';
 import { clampBox, transformBox } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';

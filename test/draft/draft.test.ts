@@ -8,6 +8,7 @@ import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/schema/draft.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { loadSchema } from '../../src/schema/load.js';
+import { W4_BLANK } from '../real-form/w4-layout.js';
 
 const CLASSES = ['text_entry', 'checkbox', 'signature_area', 'comb_field'];
 const ocr = new OcrEngine();
@@ -38,7 +39,7 @@ describe('draftSchema on the real blank form (areas measured on the form image)'
   ];
 
   it('reads the printed label of each cell and drafts a valid schema', async () => {
-    const page = await grayFromImage('/work/shared/reference/real-forms/irs-w4-2025-page1-blank.png');
+    const page = await grayFromImage(W4_BLANK);
     const draft = await draftSchema([page], [areas.map(([b, c]) => det(b, c))], readLabel, { formName: 'w4-draft', referenceImages: ['w4.png'] });
     expect(() => FormSchema.parse(draft.source)).not.toThrow();
     // Drafted regions are the given areas snapped onto the printed rules: find each by overlap.

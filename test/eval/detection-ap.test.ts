@@ -6,7 +6,7 @@ import { allPointAp, cocoAp, elevenPointAp, evaluateClass, precisionRecall } fro
 import { type GroundTruthBox, type ScoredBox, boxIou, matchDetections } from '../../src/eval/detection-match.js';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
-const reference = JSON.parse(readFileSync(path.resolve(here, '../../../shared/reference/detection-ap-worked-example.json'), 'utf8')) as {
+const reference = JSON.parse(readFileSync(path.resolve(here, '../fixtures/reference/detection-ap-worked-example.json'), 'utf8')) as {
   iouThreshold: number;
   expected: { truePositives: number; falsePositives: number; finalRecall: number; allPointInterpolatedAP: number; elevenPointInterpolatedAP: number; tolerance: number };
   images: { image: string; groundTruth: number[][]; detections: number[][] }[];
@@ -14,7 +14,7 @@ const reference = JSON.parse(readFileSync(path.resolve(here, '../../../shared/re
 
 // Source: R. Padilla, S. L. Netto, E. A. B. da Silva, "A Survey on Performance Metrics for Object-Detection
 // Algorithms", IWSSIP 2020, worked example (data from rafaelpadilla/Object-Detection-Metrics, MIT licence), as
-// stored in /work/shared/reference/detection-ap-worked-example.json: PASCAL VOC matching at IoU 0.3 with the VOC
+// copied into test/fixtures/reference/detection-ap-worked-example.json: PASCAL VOC matching at IoU 0.3 with the VOC
 // devkit's inclusive pixel convention.
 describe('published worked example (Padilla et al. 2020)', () => {
   const gts: GroundTruthBox[] = [];

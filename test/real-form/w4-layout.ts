@@ -19,8 +19,8 @@ export const W4_SCHEMA = path.join(REPO_ROOT, 'test/fixtures/real-forms/w4-page1
 /** COCO truth of the blank page, written from the schema by test/real-form/make-coco.ts. */
 export const W4_BLANK_COCO = path.join(REPO_ROOT, 'test/fixtures/real-forms/w4-page1.coco.json');
 
-/** The public-domain blank itself. CI keeps a copy of shared/ beside the clone, so resolve from the repository root. */
-export const W4_BLANK = path.resolve(REPO_ROOT, '../shared/reference/real-forms/irs-w4-2025-page1-blank.png');
+/** The public-domain blank itself, copied into the fixtures with its source note (test/fixtures/real-forms/README.md). */
+export const W4_BLANK = path.join(REPO_ROOT, 'test/fixtures/real-forms/irs-w4-2025-page1-blank.png');
 
 /** Layout name used in truth files and page stems. */
 export const W4_LAYOUT = 'w4-page1';

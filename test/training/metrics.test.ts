@@ -2,11 +2,12 @@ import { spawnSync } from 'node:child_process';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
+import { PYTHON, missingPythonModules, skipUnlessPresent } from '../support/requirements.js';
 
 // The model card's numbers come from training/evaluate.py, so its matching and AP code (training/metrics.py) is
 // checked against the same outside references as the TypeScript evaluator.
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
-const referenceFile = path.resolve(root, '../shared/reference/detection-ap-worked-example.json');
+const referenceFile = path.join(root, 'test/fixtures/reference/detection-ap-worked-example.json');
 
 const SCRIPT = `
 import json, sys
@@ -39,19 +40,23 @@ out["nms"] = non_max_suppression(boxes, np.array([0.9, 0.8, 0.7]), 0.5).tolist()
 print(json.dumps(out))
 `;
 
+// training/metrics.py needs numpy only.
+const missing = missingPythonModules(['numpy']);
+
 function runMetrics(): Record<string, unknown> {
-  const run = spawnSync('/usr/bin/python3', ['-c', SCRIPT, referenceFile], { cwd: root, encoding: 'utf8', timeout: 60_000 });
-  if (run.status !== 0) throw new Error(`/usr/bin/python3 metrics check exited ${run.status}: ${(run.stderr ?? run.error?.message ?? '').trim().split('\n').slice(-2).join(' | ')}`);
+  const run = spawnSync(PYTHON, ['-c', SCRIPT, referenceFile], { cwd: root, encoding: 'utf8', timeout: 60_000 });
+  if (run.status !== 0) throw new Error(`${PYTHON} metrics check exited ${run.status}: ${(run.stderr ?? run.error?.message ?? '').trim().split('\n').slice(-2).join(' | ')}`);
   return JSON.parse(run.stdout);
 }
 
 describe('training/metrics.py', () => {
-  const out = runMetrics();
+  const out = missing === null ? runMetrics() : {};
 
-  it('reproduces the published worked example (Padilla et al. 2020)', () => {
+  it('reproduces the published worked example (Padilla et al. 2020)', (ctx) => {
+    skipUnlessPresent(ctx, missing);
     // Source: R. Padilla, S. L. Netto, E. A. B. da Silva, "A Survey on Performance Metrics for Object-Detection
-    // Algorithms", IWSSIP 2020 (data: rafaelpadilla/Object-Detection-Metrics, MIT licence), stored in
-    // ../shared/reference/detection-ap-worked-example.json: IoU 0.3, VOC devkit inclusive pixels;
+    // Algorithms", IWSSIP 2020 (data: rafaelpadilla/Object-Detection-Metrics, MIT licence), copied into
+    // test/fixtures/reference/detection-ap-worked-example.json: IoU 0.3, VOC devkit inclusive pixels;
     // 7 TP, 17 FP, recall 0.4667, all-point AP 0.2457, 11-point AP 0.2684 (tolerance 0.0005 as the file states).
     expect(out.tp).toBe(7);
     expect(out.fp).toBe(17);
@@ -60,7 +65,8 @@ describe('training/metrics.py', () => {
     expect(Math.abs((out.ap11 as number) - 0.2684)).toBeLessThanOrEqual(0.0005);
   });
 
-  it('follows the COCO definitions on hand-made cases', () => {
+  it('follows the COCO definitions on hand-made cases', (ctx) => {
+    skipUnlessPresent(ctx, missing);
     // COCO detection evaluation (cocodataset.org "Detection Evaluation", pycocotools cocoeval.py, from memory):
     // 101-point interpolated precision; perfect detections give AP 1, none give 0, and a second detection of an
     // already matched box is a false positive.
