@@ -133,12 +133,12 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
   const gW = new Float64Array(6);
   const gR = new Float64Array(6);
   const g1 = new Float64Array(6);
-  const J = new Float64Array(6);
   for (let it = 0; it < iterations; it++) {
-    H.fill(0);
-    gW.fill(0);
-    gR.fill(0);
-    g1.fill(0);
+    let h00 = 0, h01 = 0, h02 = 0, h03 = 0, h04 = 0, h05 = 0, h11 = 0, h12 = 0, h13 = 0, h14 = 0, h15 = 0;
+    let h22 = 0, h23 = 0, h24 = 0, h25 = 0, h33 = 0, h34 = 0, h35 = 0, h44 = 0, h45 = 0, h55 = 0;
+    let gw0 = 0, gw1 = 0, gw2 = 0, gw3 = 0, gw4 = 0, gw5 = 0;
+    let gr0 = 0, gr1 = 0, gr2 = 0, gr3 = 0, gr4 = 0, gr5 = 0;
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, s5 = 0;
     let n = 0;
     let sw = 0;
     let sr = 0;
@@ -165,19 +165,22 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
         const ix = gx[o] * w00 + gx[o + 1] * w10 + gx[o + pw] * w01 + gx[o + pw + 1] * w11;
         const iy = gy[o] * w00 + gy[o + 1] * w10 + gy[o + pw] * w01 + gy[o + pw + 1] * w11;
         const ir = ref.data[y * rw + x];
-        J[0] = ix * X;
-        J[1] = ix * Y;
-        J[2] = ix;
-        J[3] = iy * X;
-        J[4] = iy * Y;
-        J[5] = iy;
-        for (let r = 0; r < 6; r++) {
-          const jr = J[r];
-          gW[r] += jr * iw;
-          gR[r] += jr * ir;
-          g1[r] += jr;
-          for (let c = r; c < 6; c++) H[r * 6 + c] += jr * J[c];
-        }
+        // Jacobian of the warped intensity w.r.t. the six parameters: [ix X, ix Y, ix, iy X, iy Y, iy]. The normal
+        // equations are accumulated in scalars (upper triangle of H, row-major): the inner loop is the hottest in
+        // the page stage, and V8 keeps scalars in registers where typed-array slots go through memory.
+        const j0 = ix * X;
+        const j1 = ix * Y;
+        const j3 = iy * X;
+        const j4 = iy * Y;
+        h00 += j0 * j0; h01 += j0 * j1; h02 += j0 * ix; h03 += j0 * j3; h04 += j0 * j4; h05 += j0 * iy;
+        h11 += j1 * j1; h12 += j1 * ix; h13 += j1 * j3; h14 += j1 * j4; h15 += j1 * iy;
+        h22 += ix * ix; h23 += ix * j3; h24 += ix * j4; h25 += ix * iy;
+        h33 += j3 * j3; h34 += j3 * j4; h35 += j3 * iy;
+        h44 += j4 * j4; h45 += j4 * iy;
+        h55 += iy * iy;
+        gw0 += j0 * iw; gw1 += j1 * iw; gw2 += ix * iw; gw3 += j3 * iw; gw4 += j4 * iw; gw5 += iy * iw;
+        gr0 += j0 * ir; gr1 += j1 * ir; gr2 += ix * ir; gr3 += j3 * ir; gr4 += j4 * ir; gr5 += iy * ir;
+        s0 += j0; s1 += j1; s2 += ix; s3 += j3; s4 += j4; s5 += iy;
         n++;
         sw += iw;
         sr += ir;
@@ -188,7 +191,17 @@ function refineEcc(ref: InkMap, page: InkMap, init: Affine, iterations: number):
     }
     coverage = n / (rw * rh);
     if (n < 100) break;
-    for (let r = 0; r < 6; r++) for (let c = 0; c < r; c++) H[r * 6 + c] = H[c * 6 + r];
+    H.set([
+      h00, h01, h02, h03, h04, h05,
+      h01, h11, h12, h13, h14, h15,
+      h02, h12, h22, h23, h24, h25,
+      h03, h13, h23, h33, h34, h35,
+      h04, h14, h24, h34, h44, h45,
+      h05, h15, h25, h35, h45, h55,
+    ]);
+    gW.set([gw0, gw1, gw2, gw3, gw4, gw5]);
+    gR.set([gr0, gr1, gr2, gr3, gr4, gr5]);
+    g1.set([s0, s1, s2, s3, s4, s5]);
     const mw = sw / n;
     const mr = sr / n;
     // Zero-mean versions: G^T (i - mean) = G^T i - mean * G^T 1.

@@ -37,30 +37,82 @@ function inkOf(img: GrayImage): Float32Array {
   return out;
 }
 
-/** Zero-mean normalized cross-correlation of `tpl` (tw x th) with `img` (iw wide) placed at (ox, oy), sampled every `step`. */
-function ncc(tpl: Float32Array, tw: number, th: number, img: Float32Array, iw: number, ox: number, oy: number, step: number): number {
-  let st = 0;
-  let si = 0;
-  let stt = 0;
-  let sii = 0;
-  let sti = 0;
-  let n = 0;
-  for (let y = 0; y < th; y += step) {
-    const tr = y * tw;
-    const ir = (y + oy) * iw + ox;
-    for (let x = 0; x < tw; x += step) {
-      const a = tpl[tr + x];
-      const b = img[ir + x];
-      st += a;
-      si += b;
-      stt += a * a;
-      sii += b * b;
-      sti += a * b;
-      n++;
+/**
+ * A plane of ink values with summed-area tables of its values and squares (Crow 1984; Lewis, "Fast Normalized
+ * Cross-Correlation", 1995): the image-side sums of every shifted window come from four lookups, so the correlation
+ * loop only multiplies template by image.
+ */
+interface Plane {
+  data: Float32Array;
+  width: number;
+  height: number;
+  /** sum[y * (width + 1) + x] = sum of data over rows < y and columns < x. */
+  sum: Float64Array;
+  sumSq: Float64Array;
+}
+
+function plane(data: Float32Array, width: number, height: number): Plane {
+  const W = width + 1;
+  const sum = new Float64Array(W * (height + 1));
+  const sumSq = new Float64Array(W * (height + 1));
+  for (let y = 0; y < height; y++) {
+    let row = 0;
+    let rowSq = 0;
+    for (let x = 0; x < width; x++) {
+      const v = data[y * width + x];
+      row += v;
+      rowSq += v * v;
+      sum[(y + 1) * W + x + 1] = sum[y * W + x + 1] + row;
+      sumSq[(y + 1) * W + x + 1] = sumSq[y * W + x + 1] + rowSq;
     }
   }
-  const vt = stt - (st * st) / n;
-  const vi = sii - (si * si) / n;
+  return { data, width, height, sum, sumSq };
+}
+
+/** Every second pixel of every second row, from (0, 0): what the coarse search sampled in place before. */
+function decimate(data: Float32Array, width: number, height: number): { data: Float32Array; width: number; height: number } {
+  const w2 = Math.ceil(width / 2);
+  const h2 = Math.ceil(height / 2);
+  const out = new Float32Array(w2 * h2);
+  for (let y = 0; y < h2; y++) for (let x = 0; x < w2; x++) out[y * w2 + x] = data[2 * y * width + 2 * x];
+  return { data: out, width: w2, height: h2 };
+}
+
+function windowSum(table: Float64Array, W: number, ox: number, oy: number, tw: number, th: number): number {
+  return table[(oy + th) * W + ox + tw] - table[oy * W + ox + tw] - table[(oy + th) * W + ox] + table[oy * W + ox];
+}
+
+/** Zero-mean normalized cross-correlation of the template plane with the image plane placed at (ox, oy). */
+function ncc(tpl: Plane, img: Plane, ox: number, oy: number): number {
+  const tw = tpl.width;
+  const th = tpl.height;
+  const iw = img.width;
+  const t = tpl.data;
+  const d = img.data;
+  // Four partial sums: one running sum is bound by the latency of each addition, four keep the core busy.
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  for (let y = 0; y < th; y++) {
+    let tr = y * tw;
+    let ir = (y + oy) * iw + ox;
+    const end = tr + tw;
+    for (; tr + 3 < end; tr += 4, ir += 4) {
+      s0 += t[tr] * d[ir];
+      s1 += t[tr + 1] * d[ir + 1];
+      s2 += t[tr + 2] * d[ir + 2];
+      s3 += t[tr + 3] * d[ir + 3];
+    }
+    for (; tr < end; tr++, ir++) s0 += t[tr] * d[ir];
+  }
+  const sti = s0 + s1 + s2 + s3;
+  const n = tw * th;
+  const W = tw + 1;
+  const st = tpl.sum[th * W + tw];
+  const vt = tpl.sumSq[th * W + tw] - (st * st) / n;
+  const si = windowSum(img.sum, iw + 1, ox, oy, tw, th);
+  const vi = windowSum(img.sumSq, iw + 1, ox, oy, tw, th) - (si * si) / n;
   if (vt <= 1e-6 || vi <= 1e-6) return -1;
   return (sti - (st * si) / n) / Math.sqrt(vt * vi);
 }
@@ -80,12 +132,20 @@ export function refineRegion(page: GrayImage, reference: GrayImage, refToPage: A
   const sampled = warpGray(page, composeAffine(refToPage, translation(x0 - s, y0 - s)), w + 2 * s, h + 2 * s);
   const img = inkOf(sampled);
   const iw = w + 2 * s;
+  const ih = h + 2 * s;
+  const fineTpl = plane(tpl, w, h);
+  const fineImg = plane(img, iw, ih);
+  // Coarse offsets dx + s run over even numbers, so every sampled pixel lies on the even grid of both planes.
+  const t2 = decimate(tpl, w, h);
+  const i2 = decimate(img, iw, ih);
+  const coarseTpl = plane(t2.data, t2.width, t2.height);
+  const coarseImg = plane(i2.data, i2.width, i2.height);
   let best: [number, number] = [0, 0];
   let bestScore = -2;
   // Coarse: every second shift, every second pixel.
   for (let dy = -s; dy <= s; dy += 2) {
     for (let dx = -s; dx <= s; dx += 2) {
-      const v = ncc(tpl, w, h, img, iw, dx + s, dy + s, 2);
+      const v = ncc(coarseTpl, coarseImg, (dx + s) / 2, (dy + s) / 2);
       if (v > bestScore) {
         bestScore = v;
         best = [dx, dy];
@@ -97,7 +157,7 @@ export function refineRegion(page: GrayImage, reference: GrayImage, refToPage: A
   bestScore = -2;
   for (let dy = Math.max(-s, cy - 2); dy <= Math.min(s, cy + 2); dy++) {
     for (let dx = Math.max(-s, cx - 2); dx <= Math.min(s, cx + 2); dx++) {
-      const v = ncc(tpl, w, h, img, iw, dx + s, dy + s, 1);
+      const v = ncc(fineTpl, fineImg, dx + s, dy + s);
       if (v > bestScore) {
         bestScore = v;
         best = [dx, dy];
