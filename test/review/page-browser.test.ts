@@ -102,7 +102,11 @@ describe('review page without a browser', () => {
   });
 });
 
-describe.skipIf(!browserPath)('review page in chromium', () => {
+const browserTitle = browserPath
+  ? 'review page in chromium'
+  : 'review page in chromium (skipped: no chromium on PATH; apt-get install chromium, or set FORMGLEAN_CHROMIUM)';
+
+describe.skipIf(!browserPath)(browserTitle, () => {
   const label = (p: Page, id: string) => p.locator(`#${id}`).innerText();
   const progressSays = (p: Page, done: number) =>
     p.waitForFunction((n) => (document.getElementById('progress-text')?.textContent ?? '').startsWith(`${n} of `), done);
