@@ -70,7 +70,10 @@ export interface AnswerSource {
   via: 'queue' | 'page';
 }
 
-export type AnswersReport = Omit<ApplyReport, 'extraColumns'>;
+export type AnswersReport = Omit<ApplyReport, 'extraColumns'> & {
+  /** The documents as they are after the answers (for callers that show them, like the review page). */
+  documents: StoredResult[];
+};
 
 /**
  * Apply answers to the results folder: the one path every answer takes, from a CSV queue or from the review page.
@@ -127,6 +130,7 @@ export async function applyAnswers(
       auditRecovered: recovered.length,
       problems: plan.problems,
       changedSchemas: await fieldOptions.changedSchemas(documents),
+      documents: [...current.values()],
     };
   });
 }
@@ -135,7 +139,7 @@ export async function applyAnswers(
 export async function applyReviewQueue(queueFile: string, resultsDir: string, options: ApplyOptions = {}): Promise<ApplyReport> {
   const queue = await readReviewQueue(queueFile);
   const read = answersFromQueue(queue.entries);
-  const report = await applyAnswers(resultsDir, read.answers, { queue: path.resolve(queueFile), via: 'queue' }, options);
+  const { documents: _documents, ...report } = await applyAnswers(resultsDir, read.answers, { queue: path.resolve(queueFile), via: 'queue' }, options);
   return {
     ...report,
     unanswered: read.unanswered,

@@ -128,6 +128,14 @@ describe.skipIf(!browserPath)(browserTitle, () => {
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('correction');
 
     const fieldShown = async () => (await label(page, 'field-title')).split(' — ')[0];
+
+    // Filters narrow the view: one field name leaves one row (one document); clearing it brings all back.
+    const first = await fieldShown();
+    await page.selectOption('#filter-field', first);
+    await page.waitForFunction(() => (document.getElementById('progress-text')?.textContent ?? '').includes('0 of 1 in this view'));
+    await page.selectOption('#filter-field', '');
+    await page.waitForFunction(() => !(document.getElementById('progress-text')?.textContent ?? '').includes('in this view'));
+    await page.locator('#correction').focus();
     let done = 0;
     let badDateTried = false;
     let undone = false;

@@ -8,7 +8,7 @@ import { EMPTY_CORRECTION } from '../answers.js';
 import { applyAnswers, defaultReviewer } from '../apply.js';
 import { CROPS_DIR, queuePath, reviewDir } from '../layout.js';
 import { newPageToken, tokenMatches } from './token.js';
-import { answerFromPage, buildPageView, readPageQueue } from './view.js';
+import { answerFromPage, buildPageView, pageRows, readPageQueue } from './view.js';
 
 /** The page's own files: HTML, script and style, served from the package (nothing is fetched from elsewhere). */
 const ASSETS = new URL('../../../assets/review-page/', import.meta.url);
@@ -126,8 +126,7 @@ export async function startReviewPage(options: ReviewPageOptions): Promise<Revie
         { queue: queueFile, via: 'page' },
         { reviewer, now: options.now?.() },
       );
-      const view = await buildPageView(options.resultsDir);
-      const row = view.rows.find((r) => r.rowId === parsed.data.rowId) ?? null;
+      const [row = null] = await pageRows(options.resultsDir, [entry], report.documents);
       if (report.problems.length > 0) return { ok: false, message: report.problems[0].message, row };
       const what = report.reverted ? 'undone' : report.corrected ? 'corrected' : report.confirmed ? 'confirmed' : 'already saved';
       return { ok: true, message: what, row };

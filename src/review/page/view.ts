@@ -8,7 +8,7 @@ import { queuePath } from '../layout.js';
 import type { QueueEntry } from '../queue-read.js';
 import { readReviewQueue } from '../queue-read.js';
 import { resultFingerprint } from '../result-fingerprint.js';
-import { readResultsFolder } from '../result-store.js';
+import { readResultsFolder, type StoredResult } from '../result-store.js';
 import { assignRowIds } from '../row-id.js';
 
 /** A reason code as the page shows it: the code, and in plain words what it means and what to check. */
@@ -70,9 +70,14 @@ export async function readPageQueue(resultsDir: string): Promise<QueueEntry[]> {
 export async function buildPageView(resultsDir: string): Promise<PageView> {
   const entries = await readPageQueue(resultsDir);
   const folder = await readResultsFolder(resultsDir);
-  const ids = assignRowIds(folder.documents.map((d) => d.result));
+  return { rows: await pageRows(resultsDir, entries, folder.documents), newQueueCommand: newQueueCommand(resultsDir) };
+}
+
+/** Rows for the given queue entries from the given documents (all of the folder's: row ids depend on every one). */
+export async function pageRows(resultsDir: string, entries: readonly QueueEntry[], documents: readonly StoredResult[]): Promise<PageRow[]> {
+  const ids = assignRowIds(documents.map((d) => d.result));
   const byRow = new Map<string, { doc: DocumentResult; field: FieldResult; hash: () => string }>();
-  for (const d of folder.documents) {
+  for (const d of documents) {
     let hash: string | undefined;
     const fingerprint = () => (hash ??= resultFingerprint(d.raw));
     const fieldIds = ids.get(d.result.document.id)!;
@@ -120,7 +125,7 @@ export async function buildPageView(resultsDir: string): Promise<PageView> {
       stale,
     });
   }
-  return { rows, newQueueCommand: command };
+  return rows;
 }
 
 /** What the page posts for one row. */
