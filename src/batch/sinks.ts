@@ -53,8 +53,14 @@ export interface BatchSummary {
   fields: { total: number; byStatus: Record<FieldStatus, number> };
   /** Share of fields accepted without review. */
   straightThroughRate: number | null;
+  /** Share of processed documents with every field accepted: nobody had to look at them (what offices count). */
+  documentStraightThroughRate: number | null;
   seconds: number;
   secondsPerPage: number | null;
+}
+
+function allAccepted(counts: ResultsLine['counts']): boolean {
+  return FieldStatus.options.every((s) => s === 'accepted' || (counts?.[s] ?? 0) === 0);
 }
 
 export function summarize(lines: readonly ResultsLine[]): BatchSummary {
@@ -75,6 +81,7 @@ export function summarize(lines: readonly ResultsLine[]): BatchSummary {
     pages,
     fields: { total, byStatus },
     straightThroughRate: total > 0 ? byStatus.accepted / total : null,
+    documentStraightThroughRate: processed > 0 ? lines.filter((l) => l.ok && allAccepted(l.counts)).length / processed : null,
     seconds: Math.round(seconds * 1000) / 1000,
     secondsPerPage: pages > 0 ? Math.round((seconds / pages) * 1000) / 1000 : null,
   };

@@ -25,6 +25,11 @@ function collect(value: string, previous: string[]): string[] {
   return [...previous, value];
 }
 
+/** Share as a whole percentage, or '-' when there is nothing to count. */
+function percent(share: number | null): string {
+  return share === null ? '-' : `${Math.round(share * 100)} %`;
+}
+
 export function registerExtractCommand(program: Command): void {
   program
     .command('extract')
@@ -77,7 +82,8 @@ export function registerExtractCommand(program: Command): void {
         process.stdout.write(
           `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
             `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
-            `${s.fields.byStatus.missing} missing; ${s.secondsPerPage ?? '-'} s/page. Results in ${opts.out}\n`,
+            `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
+            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${opts.out}\n`,
         );
         if (s.documents.failed > 0) process.exitCode = 1;
       } finally {

@@ -87,6 +87,16 @@ async function locateDocument(resultFile: string, result: DocumentResult, overri
   throw documentError(resultFile, `document "${result.document.path}" not found (give it with --document)`);
 }
 
+/**
+ * The page of the file that holds a record's form page: a file with a stack of forms gives each form its own record
+ * (doc.p2, doc.p3, ...), whose pages name their place in the file (filePage); the boxes are in that page's pixels.
+ */
+export function recordFilePage(resultFile: string, result: DocumentResult, page: number): number {
+  const p = result.pages.find((x) => x.index === page);
+  if (!p) throw configError(resultFile, `--page ${page} asked, but the record has ${result.pages.length} page(s) (0-based)`);
+  return p.filePage ?? p.index;
+}
+
 /** `formglean overlay RESULT.json --out page.png`: draw located fields, statuses and (on request) values. */
 export function registerOverlayCommand(program: Command): void {
   program
@@ -94,19 +104,21 @@ export function registerOverlayCommand(program: Command): void {
     .description('Draw the located fields of a document result, coloured by status, on the page image')
     .argument('<result>', 'document result JSON written by extract')
     .requiredOption('--out <png>', 'PNG to write')
-    .option('--page <n>', 'page index (0-based)', '0')
+    .option('--page <n>', "page of the record's form (0-based; a record of a form stacked in a larger file finds its own page in the file)", '0')
     .option('--document <file>', 'the scanned document, when it is no longer where the result says')
     .option('--show-values', 'print field values beside the boxes (forms carry personal data: off by default)', false)
     .action(async (resultFile: string, opts: { out: string; page: string; document?: string; showValues: boolean }) => {
       const page = Number(opts.page);
       if (!Number.isInteger(page) || page < 0) throw configError(undefined, `--page must be a page index 0, 1, ...; got "${opts.page}"`);
       const result = await readResult(resultFile);
+      const filePage = recordFilePage(resultFile, result, page);
       const docFile = await locateDocument(resultFile, result, opts.document);
       const doc = await decodeDocument(docFile);
-      if (page >= doc.pages.length) throw configError(docFile, `--page ${page} asked, but the document has ${doc.pages.length} page(s)`);
+      if (filePage >= doc.pages.length) throw configError(docFile, `the record's page ${page} is page ${filePage + 1} of the file, but the file has ${doc.pages.length} page(s)`);
       const items = resultOverlayItems(result, page, opts.showValues);
-      const png = await renderOverlay(doc.pages[page], items, statusLegend(result));
+      const png = await renderOverlay(doc.pages[filePage], items, statusLegend(result));
       await writeFileAtomic(opts.out, png);
-      process.stdout.write(`${opts.out}: ${items.length} field boxes on page ${page}${opts.showValues ? ' (with values)' : ''}\n`);
+      const where = filePage !== page ? ` (page ${filePage + 1} of ${path.basename(docFile)})` : '';
+      process.stdout.write(`${opts.out}: ${items.length} field boxes on page ${page}${where}${opts.showValues ? ' (with values)' : ''}\n`);
     });
 }

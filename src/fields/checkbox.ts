@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { ReasonCode } from './reasons.js';
 import type { FieldType, Interpretation } from './types.js';
 import { invalidInterpretation, validInterpretation } from './interpretation.js';
 import {
@@ -23,10 +24,13 @@ export const checkboxField: FieldType<CheckboxOptions> = {
     if (reading.kind !== 'marks' || reading.marks.length === 0) throw new Error('checkbox fields are read as marks');
     const mark = reading.marks[0];
     const d = decideMark(mark.fillRatio, o);
-    const reasons = mark.boxFound ? [] : ['box_not_found'];
+    const reasons: ReasonCode[] = mark.boxFound ? [] : ['box_not_found'];
     const confidence = d.confidence * (mark.boxFound ? 1 : NO_OUTLINE_FACTOR);
     if (d.state === 'ambiguous') return { value: null, outcome: 'ambiguous', confidence, reasons: [...reasons, 'ambiguous_mark'] };
     return validInterpretation(d.state === 'checked', confidence, reasons);
+  },
+  acceptedInput() {
+    return 'yes (ticked) or no (not ticked)';
   },
   parseCorrection(text) {
     const yes = parseYesNo(text);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { ReasonCode } from './reasons.js';
 import type { FieldPart, FieldType, Interpretation } from './types.js';
 import { emptyInterpretation, invalidInterpretation, validInterpretation } from './interpretation.js';
 import { decideMark, markThresholds, NO_OUTLINE_FACTOR, THRESHOLD_ORDER_MESSAGE, thresholdsOrdered } from './mark-decision.js';
@@ -46,7 +47,7 @@ export const choiceField: FieldType<ChoiceOptions> = {
       if (d.state === 'checked') checked.push(c.value);
       if (d.state === 'ambiguous') ambiguous = true;
     }
-    const reasons = outlineMissing ? ['box_not_found'] : [];
+    const reasons: ReasonCode[] = outlineMissing ? ['box_not_found'] : [];
     if (ambiguous) return { value: null, outcome: 'ambiguous', confidence, reasons: [...reasons, 'ambiguous_mark'] };
     // "Tick all that apply" with nothing ticked answers "none": an empty list, which a required group reports missing.
     if (o.multiple) return checked.length ? validInterpretation(checked, confidence, reasons) : { value: [], outcome: 'empty', confidence, reasons };
@@ -58,6 +59,10 @@ export const choiceField: FieldType<ChoiceOptions> = {
       confidence,
       reasons: [...reasons, checked.length === 0 ? 'no_choice_marked' : 'several_choices_marked'],
     };
+  },
+  acceptedInput(o) {
+    const values = o.choices.map((c) => c.value).join(', ');
+    return o.multiple ? `any of: ${values} (several separated by ;)` : `one of: ${values}`;
   },
   parseCorrection(text, o) {
     const typed = text

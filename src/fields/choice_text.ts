@@ -58,6 +58,9 @@ export const choiceTextField: FieldType<ChoiceTextOptions> = {
   interpret(reading, o) {
     return interpretText(ocrText(reading, 'choice_text'), o, true);
   },
+  acceptedInput(o) {
+    return `one of: ${o.choices.join(', ')}`;
+  },
   parseCorrection(text, o) {
     return interpretText(text, o, false);
   },

@@ -1,6 +1,7 @@
 import { format as formatDate, isValid, parse } from 'date-fns';
 import { z } from 'zod';
 import type { FieldType, Interpretation } from './types.js';
+import type { ReasonCode } from './reasons.js';
 import { type DateToken, dateFormatProblem, datePattern, tokenizeDateFormat } from './date-format.js';
 import { repairDigits, repairPenalty } from './digit-repair.js';
 import { emptyInterpretation, invalidInterpretation } from './interpretation.js';
@@ -95,19 +96,19 @@ function interpretText(text: string, o: DateOptions, today: Date): Interpretatio
     if (c === 'impossible') impossible = true;
     else if (c) found.push(c);
   }
-  if (found.length === 0) return invalidInterpretation(impossible ? ['invalid_date'] : ['invalid_date', 'format_mismatch']);
+  if (found.length === 0) return invalidInterpretation(impossible ? ['invalid_date'] : ['format_mismatch']);
 
   const fewest = Math.min(...found.map((c) => c.repairs));
   const best = found.filter((c) => c.repairs === fewest);
   const chosen = best[0];
-  const reasons: string[] = [];
+  const reasons: ReasonCode[] = [];
   if (chosen.repairs > 0) reasons.push('repaired_digits');
   const confidence = repairPenalty(chosen.repairs);
   // "03/04/2024" under both MM/DD/YYYY and DD/MM/YYYY: two real dates, no way to tell them apart from the text.
   if (new Set(best.map((c) => c.iso)).size > 1)
     return { value: null, outcome: 'ambiguous', confidence, reasons: [...reasons, 'ambiguous_date_format'] };
 
-  const rangeReasons: string[] = [];
+  const rangeReasons: ReasonCode[] = [];
   if (o.notFuture && chosen.iso > formatDate(today, 'yyyy-MM-dd')) rangeReasons.push('future_date');
   if (o.minYear !== undefined && chosen.year < o.minYear) rangeReasons.push('before_min_year');
   // Out of range is still a real calendar date: keep it so the reviewer sees what was read.
@@ -133,6 +134,11 @@ export const dateField: FieldType<DateOptions> = {
   },
   interpret(reading, o, ctx) {
     return interpretText(ocrText(reading, 'date'), o, ctx.today);
+  },
+  acceptedInput(o) {
+    const formats = [...new Set([...o.formats, 'YYYY-MM-DD'])];
+    const limits = [o.notFuture ? 'not after today' : '', o.minYear !== undefined ? `not before ${o.minYear}` : ''].filter(Boolean);
+    return `a date as ${formats.join(' or ')}${limits.length ? ` (${limits.join(', ')})` : ''}`;
   },
   parseCorrection(text, o, ctx) {
     // A reviewer may type the stored form directly; accept ISO 8601 YYYY-MM-DD besides the declared formats.

@@ -36,6 +36,9 @@ export const emailField: FieldType<EmailOptions> = {
   interpret(reading) {
     return interpretText(ocrText(reading, 'email'), true);
   },
+  acceptedInput() {
+    return 'an e-mail address, e.g. name@example.org';
+  },
   parseCorrection(text) {
     return interpretText(text, false);
   },

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { FieldType, Interpretation } from './types.js';
+import type { ReasonCode } from './reasons.js';
 import { DIGITISH, repairDigits, repairPenalty } from './digit-repair.js';
 import { emptyInterpretation, invalidInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
@@ -50,10 +51,10 @@ function interpretText(text: string, o: NumberOptions, repair: boolean): Interpr
   const fraction = repairDigits(m[3] ?? '');
   const repairs = whole.repairs + fraction.repairs;
   const value = Number(`${m[1]}${whole.text || '0'}${fraction.text ? '.' + fraction.text : ''}`);
-  const reasons: string[] = repairs ? ['repaired_digits'] : [];
+  const reasons: ReasonCode[] = repairs ? ['repaired_digits'] : [];
   const confidence = repairPenalty(repairs);
   if (o.integer && !Number.isInteger(value)) return invalidInterpretation([...reasons, 'not_integer'], confidence);
-  const range: string[] = [];
+  const range: ReasonCode[] = [];
   if (o.min !== undefined && value < o.min) range.push('below_min');
   if (o.max !== undefined && value > o.max) range.push('above_max');
   // A number out of range keeps its value so the reviewer sees what was read.
@@ -73,6 +74,16 @@ export const numberField: FieldType<NumberOptions> = {
     // The OCR cleanup strips a leading "-" as a border fragment; a minus right before a digit is a sign.
     const signed = reading.kind === 'text' && /^\s*[-\u2212]\s*\d/.test(reading.text) && !text.startsWith('-');
     return interpretText(signed ? `-${text}` : text, o, true);
+  },
+  acceptedInput(o) {
+    const mark = o.decimalSeparator === '.' ? 'a decimal point (12.5)' : 'a decimal comma (12,5)';
+    const limits = [
+      o.integer ? 'a whole number' : `a number with ${mark}`,
+      o.min !== undefined ? `at least ${o.min}` : '',
+      o.max !== undefined ? `at most ${o.max}` : '',
+      o.unit !== undefined ? `the unit ${o.unit} may be typed or left out` : '',
+    ].filter(Boolean);
+    return limits.join(', ');
   },
   parseCorrection(text, o) {
     return interpretText(text, o, false);

@@ -50,6 +50,9 @@ export const phoneField: FieldType<PhoneOptions> = {
   interpret(reading, o) {
     return interpretText(ocrText(reading, 'phone'), o, true);
   },
+  acceptedInput(o) {
+    return `a phone number as written, e.g. (207) 555-0142; without a country code it is read as ${o.defaultRegion}; with one, as +1 207 555 0142`;
+  },
   parseCorrection(text, o) {
     return interpretText(text, o, false);
   },

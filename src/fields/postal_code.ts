@@ -97,6 +97,10 @@ export const postalCodeField: FieldType<PostalCodeOptions> = {
   interpret(reading, o) {
     return interpretText(ocrText(reading, 'postal_code'), o, true);
   },
+  acceptedInput(o) {
+    const shapes = { US: 'a US ZIP Code, 12345 or 12345-6789', CA: 'a Canadian postal code, A1A 1A1', GB: 'a UK postcode, e.g. SW1A 1AA' };
+    return shapes[o.country];
+  },
   parseCorrection(text, o) {
     return interpretText(text, o, false);
   },

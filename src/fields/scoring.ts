@@ -1,5 +1,6 @@
 import { applyConfidenceMap, type ConfidenceMapPoints } from './confidence-map.js';
 import type { Interpretation, Reading } from './types.js';
+import type { ReasonCode } from './reasons.js';
 
 /**
  * Confidence and status of one field, from everything known about it (pure).
@@ -39,7 +40,7 @@ export interface ScoreInput {
 export interface FieldScore {
   status: 'accepted' | 'review' | 'missing' | 'invalid';
   confidence: number;
-  reasons: string[];
+  reasons: ReasonCode[];
   scores: Record<string, number>;
 }
 
@@ -81,7 +82,7 @@ function round3(v: number): number {
   return Math.round(v * 1000) / 1000;
 }
 
-function unique(codes: string[]): string[] {
+function unique(codes: ReasonCode[]): ReasonCode[] {
   return [...new Set(codes)];
 }
 
@@ -89,7 +90,7 @@ export function scoreField(input: ScoreInput): FieldScore {
   const { source, detectionScore, reading, interpretation, reviewThreshold, required, confidenceMap } = input;
   const legibility = clamp01(input.legibility ?? 1);
   const scores: Record<string, number> = {};
-  const reasons: string[] = [];
+  const reasons: ReasonCode[] = [];
   const location = locationFactor(source, detectionScore);
   scores.location = round3(location);
   if (source === 'detection' && detectionScore !== null) {
@@ -129,6 +130,6 @@ export function scoreField(input: ScoreInput): FieldScore {
   else if (interpretation.outcome === 'ambiguous') status = 'review';
   else status = confidence < reviewThreshold ? 'review' : 'accepted';
   if (status === 'missing') reasons.push('required_empty');
-  if (status === 'review' && reasons.length === 0) reasons.push('low_confidence');
+  if (status === 'review' && reasons.length === 0) reasons.push('below_review_threshold');
   return { status, confidence, reasons: unique(reasons), scores };
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { ReasonCode } from './reasons.js';
 import type { FieldType } from './types.js';
 import { invalidInterpretation, validInterpretation } from './interpretation.js';
 import { parseYesNo } from './mark-decision.js';
@@ -36,8 +37,11 @@ export const signatureField: FieldType<SignatureOptions> = {
     // or very short signature goes to review rather than being silently called absent (common practice).
     const ratio = reading.coverage >= t ? (reading.coverage - t) / Math.max(t, 1e-6) : (t - reading.coverage) / Math.max(t, 1e-6) * 2;
     const confidence = 0.6 + 0.4 * Math.min(1, ratio);
-    const reasons = confidence < 0.75 ? ['faint_signature'] : [];
+    const reasons: ReasonCode[] = confidence < 0.75 ? ['faint_signature'] : [];
     return validInterpretation(reading.coverage >= t, confidence, reasons);
+  },
+  acceptedInput() {
+    return 'yes (signed) or no (not signed)';
   },
   parseCorrection(text) {
     const yes = parseYesNo(text);

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { FieldType, Interpretation } from './types.js';
+import type { ReasonCode } from './reasons.js';
 import { emptyInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
 import { repairPenalty, repairWordLetters } from './digit-repair.js';
@@ -35,7 +36,7 @@ function check(read: string, o: TextOptions): Interpretation {
   if (read === '') return emptyInterpretation();
   const compact = read.replace(/\s+/g, '');
   const value = o.pattern !== undefined && !matches(o.pattern, read) && matches(o.pattern, compact) ? compact : read;
-  const reasons: string[] = [];
+  const reasons: ReasonCode[] = [];
   if (o.minLength !== undefined && value.length < o.minLength) reasons.push('too_short');
   if (o.maxLength !== undefined && value.length > o.maxLength) reasons.push('too_long');
   if (o.pattern !== undefined && !matches(o.pattern, value)) reasons.push('pattern_mismatch');
@@ -56,6 +57,14 @@ export const textField: FieldType<TextOptions> = {
     const r = check(applyCase(repaired.text, o.case), o);
     if (repaired.repairs === 0 || r.outcome === 'empty') return r;
     return { ...r, confidence: r.confidence * repairPenalty(repaired.repairs), reasons: [...r.reasons, 'repaired_letters'] };
+  },
+  acceptedInput(o) {
+    const limits = [
+      o.minLength !== undefined ? `at least ${o.minLength} characters` : '',
+      o.maxLength !== undefined ? `at most ${o.maxLength} characters` : '',
+      o.pattern !== undefined ? `matching ${o.pattern}` : '',
+    ].filter(Boolean);
+    return `text as written${limits.length ? `, ${limits.join(', ')}` : ''}`;
   },
   parseCorrection(text, o) {
     return check(applyCase(text.replace(/\s+/g, ' ').trim(), o.case), o);

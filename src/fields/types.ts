@@ -1,4 +1,5 @@
 import type { z } from 'zod';
+import type { ReasonCode } from './reasons.js';
 
 /** How a field's pixels become evidence: OCR text, fill ratio of printed boxes, or ink coverage. */
 export type ReaderKind = 'ocr' | 'mark' | 'ink';
@@ -49,8 +50,8 @@ export interface Interpretation {
   outcome: 'valid' | 'invalid' | 'empty' | 'ambiguous';
   /** 0..1 trust from the type's own evidence and checks (repairs lower it); 1 when nothing argues against. */
   confidence: number;
-  /** Stable reason codes, e.g. repaired_digits, invalid_date, ambiguous_mark. */
-  reasons: string[];
+  /** Stable reason codes from reasons.ts, e.g. repaired_digits, invalid_date, ambiguous_mark. */
+  reasons: ReasonCode[];
 }
 
 /** One part of a field on the page: most fields have one, a choice group has one per printed box. */
@@ -80,6 +81,11 @@ export interface FieldType<O = unknown> {
   /** Parts to locate; default is one part keyed by the field name with the field's region. */
   parts?(options: O, fieldName: string, region?: [number, number, number, number]): FieldPart[];
   interpret(reading: Reading, options: O, context: FieldTypeContext): Interpretation;
+  /**
+   * What a reviewer may type as a correction, in plain words and naming every accepted format, e.g. "a date as
+   * MM/DD/YYYY or YYYY-MM-DD". Shown on the review page and in every message that refuses a correction.
+   */
+  acceptedInput(options: O): string;
   /** A reviewer's typed correction, checked and normalized like a reading at full confidence. */
   parseCorrection(text: string, options: O, context: FieldTypeContext): Interpretation;
 }

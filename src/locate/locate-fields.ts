@@ -2,6 +2,7 @@ import type { Detection } from '../detect/types.js';
 import type { Affine, Box } from '../page/geometry.js';
 import { iou, transformBox } from '../page/geometry.js';
 import type { FieldSpec } from '../schema/definition.js';
+import type { ReasonCode } from '../fields/reasons.js';
 import type { ExpectedPart } from './expected-boxes.js';
 import { expectedParts } from './expected-boxes.js';
 import { greedyMatch } from './greedy-match.js';
@@ -16,7 +17,7 @@ export interface LocatedPart {
   expected: Box | null;
   /** The schema region on the reference page (reference pixels), when there is one. */
   region: Box | null;
-  reasons: string[];
+  reasons: ReasonCode[];
 }
 
 export interface LocatedField {
@@ -98,7 +99,7 @@ function locateUnique(
   let best: Detection | null = null;
   for (const d of detections) if (d.className === part.className && (!best || d.score > best.score)) best = d;
   if (!best) return fallback(part, expected);
-  const reasons: string[] = [];
+  const reasons: ReasonCode[] = [];
   if (expected && iou(expected, best.box) < options.disagreeBelow) reasons.push('location_disagrees');
   return { key: part.key, box: best.box, source: 'detection', detectionScore: best.score, expected, region: part.region, reasons };
 }
@@ -107,5 +108,5 @@ function fallback(part: ExpectedPart, expected: Box | null): LocatedPart {
   if (expected) {
     return { key: part.key, box: expected, source: 'region', detectionScore: null, expected, region: part.region, reasons: ['region_fallback'] };
   }
-  return { key: part.key, box: null, source: 'none', detectionScore: null, expected: null, region: null, reasons: ['not_found'] };
+  return { key: part.key, box: null, source: 'none', detectionScore: null, expected: null, region: null, reasons: [] };
 }

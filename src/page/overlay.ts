@@ -26,6 +26,59 @@ function escapeXml(s: string): string {
   return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
 
+function overlap(a: Box, b: Box): number {
+  const w = Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x);
+  const h = Math.min(a.y + a.h, b.y + b.h) - Math.max(a.y, b.y);
+  return w > 0 && h > 0 ? w * h : 0;
+}
+
+/**
+ * Where each caption's backing plate goes: the first of above, below, right of, left of the box that covers no
+ * field box and no caption already placed and stays on the page; failing that, the one that covers least. A
+ * caption must never hide the entry it describes or its neighbour's, which a reviewer reads through the overlay.
+ * Null for an item without caption.
+ */
+export function captionPlates(width: number, height: number, items: readonly OverlayItem[], font: number, pad: number): (Box | null)[] {
+  const placed: Box[] = [];
+  const boxes = items.map((it) => it.box);
+  return items.map((it) => {
+    if (it.caption === '') return null;
+    const { x, y, w, h } = it.box;
+    // Width estimate for the backing plate: DejaVu Sans averages about 0.6 em per character (from memory).
+    const pw = 0.6 * font * it.caption.length + 2 * pad;
+    const ph = font * 1.3;
+    const gap = pad;
+    const candidates: Box[] = [
+      { x, y: y - ph - gap, w: pw, h: ph },
+      { x, y: y + h + gap, w: pw, h: ph },
+      { x: x + w + gap, y, w: pw, h: ph },
+      { x: x - pw - gap, y, w: pw, h: ph },
+      // Shifted sideways along the lines above and below: checkbox rows leave room between their boxes.
+      ...[-1, 1, -2, 2].flatMap((k) => [
+        { x: x + (k * pw) / 2, y: y - ph - gap, w: pw, h: ph },
+        { x: x + (k * pw) / 2, y: y + h + gap, w: pw, h: ph },
+      ]),
+    ].map((c) => ({ ...c, x: Math.max(0, Math.min(c.x, width - c.w)) }));
+    const onPage = candidates.filter((c) => c.y >= 0 && c.y + c.h <= height);
+    const cost = (c: Box) => [...boxes, ...placed].reduce((a, b) => a + overlap(c, b), 0);
+    let best = onPage[0] ?? { x, y, w: pw, h: ph };
+    let bestCost = onPage.length ? cost(best) : Infinity;
+    for (const c of onPage) {
+      const k = cost(c);
+      if (k === 0) {
+        best = c;
+        break;
+      }
+      if (k < bestCost) {
+        best = c;
+        bestCost = k;
+      }
+    }
+    placed.push(best);
+    return best;
+  });
+}
+
 /** The overlay layer as SVG text (exported for tests and for callers that composite it themselves). */
 export function overlaySvg(width: number, height: number, items: readonly OverlayItem[], legend: readonly LegendEntry[] = []): string {
   // Sizes follow the page: a 1700-px-wide page (letter at 200 dpi) gets 3-px frames and 22-px captions.
@@ -34,22 +87,20 @@ export function overlaySvg(width: number, height: number, items: readonly Overla
   const font = Math.round(22 * k);
   const pad = Math.round(4 * k);
   const parts: string[] = [];
-  for (const it of items) {
+  const plates = captionPlates(width, height, items, font, pad);
+  items.forEach((it, i) => {
     const { x, y, w, h } = it.box;
     const dash = it.dashed ? ` stroke-dasharray="${(4 * stroke).toFixed(1)} ${(2 * stroke).toFixed(1)}"` : '';
     parts.push(
       `<rect x="${x.toFixed(1)}" y="${y.toFixed(1)}" width="${w.toFixed(1)}" height="${h.toFixed(1)}" fill="none" stroke="${it.colour}" stroke-width="${stroke.toFixed(1)}"${dash}/>`,
     );
-    if (it.caption === '') continue;
-    // Caption above the box, or inside its top edge when the box touches the top of the page.
-    const ty = y - pad - font * 0.25 >= font ? y - pad - font * 0.25 : y + font + pad;
-    // Width estimate for the backing plate: DejaVu Sans averages about 0.6 em per character (from memory).
-    const tw = 0.6 * font * it.caption.length + 2 * pad;
+    const plate = plates[i];
+    if (plate === null) return;
     parts.push(
-      `<rect x="${x.toFixed(1)}" y="${(ty - font).toFixed(1)}" width="${tw.toFixed(1)}" height="${(font * 1.25).toFixed(1)}" fill="#ffffff" fill-opacity="0.8"/>`,
-      `<text x="${(x + pad).toFixed(1)}" y="${ty.toFixed(1)}" font-family="DejaVu Sans" font-size="${font}" fill="${it.colour}">${escapeXml(it.caption)}</text>`,
+      `<rect x="${plate.x.toFixed(1)}" y="${plate.y.toFixed(1)}" width="${plate.w.toFixed(1)}" height="${plate.h.toFixed(1)}" fill="#ffffff" fill-opacity="0.8"/>`,
+      `<text x="${(plate.x + pad).toFixed(1)}" y="${(plate.y + font).toFixed(1)}" font-family="DejaVu Sans" font-size="${font}" fill="${it.colour}">${escapeXml(it.caption)}</text>`,
     );
-  }
+  });
   if (legend.length > 0) {
     const lw = Math.max(...legend.map((l) => l.text.length)) * 0.6 * font + 4 * font;
     const lx = width - lw - 2 * font;

@@ -47,7 +47,7 @@ export function buildFieldResult(
     confidenceMap: field.confidenceMap,
     legibility,
   });
-  const locateReasons = located.parts.flatMap((p) => p.reasons).filter((r) => r !== 'not_found');
+  const locateReasons = located.parts.flatMap((p) => p.reasons);
   const reasons = [...new Set([...score.reasons, ...locateReasons])];
   let status = score.status;
   // A detection far from where the schema puts the field may be another field's: a person should look.

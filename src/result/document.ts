@@ -42,6 +42,8 @@ export const FieldResult = z.object({
     .object({
       previousValue: Value,
       previousStatus: FieldStatus,
+      /** The extra forms the value had before (restored when the answer is undone). */
+      previousExtra: z.record(z.string(), z.union([z.string(), z.number(), z.boolean()])).optional(),
       reviewer: z.string(),
       at: z.string(),
       note: z.string().optional(),

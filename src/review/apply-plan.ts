@@ -3,6 +3,7 @@ import type { DocumentResult, FieldResult } from '../result/document.js';
 import { isEmptyCorrection, readConfirm } from './answers.js';
 import type { AuditEntry } from './audit.js';
 import type { FieldTyping } from './field-options.js';
+import { isPending } from './pending.js';
 import type { QueueEntry } from './queue-read.js';
 import { resultFingerprint } from './result-fingerprint.js';
 import { assignRowIds } from './row-id.js';
@@ -12,8 +13,26 @@ export interface PlanDocument {
   raw: Record<string, unknown>;
 }
 
+/**
+ * One reviewer's answer to one queue row, however it was given (a row of the CSV queue, or the review page):
+ * a correction (typed text, or the empty-field word), a confirmation of the value as read, or the undoing of
+ * the answer the field holds (only the review page offers that).
+ */
+export interface Answer {
+  /** Line of the queue file the row is on (the header is line 1). */
+  line: number;
+  rowId: string;
+  /** The row's result_hash: the document as it was when the queue was written. */
+  resultHash: string;
+  /** Document and field as the row names them, when it does (checked against the row id). */
+  document?: string;
+  field?: string;
+  action: { kind: 'correct'; text: string } | { kind: 'confirm' } | { kind: 'revert' };
+  note?: string;
+}
+
 export interface PlanInput {
-  entries: readonly QueueEntry[];
+  answers: readonly Answer[];
   documents: readonly PlanDocument[];
   typing: (doc: DocumentResult, field: FieldResult) => FieldTyping;
   reviewer: string;
@@ -22,6 +41,10 @@ export interface PlanInput {
   today: Date;
   /** The queue file as named on the command line, recorded in the audit log. */
   queue: string;
+  /** How the answers were given, recorded in the audit log. */
+  via: 'queue' | 'page';
+  /** The results folder as the user named it, for the command that makes a new queue in messages. */
+  resultsDir: string;
 }
 
 /** A row that is not applied, and why; never carries a field value (logs print no personal data). */
@@ -57,10 +80,116 @@ function sameValue(a: FieldValue, b: FieldValue): boolean {
   return JSON.stringify(a) === JSON.stringify(b);
 }
 
+/** The command that writes a fresh queue from the records, named in every stale-queue message. */
+export function newQueueCommand(resultsDir: string): string {
+  const dir = /^[\w./-]+$/.test(resultsDir) ? resultsDir : `"${resultsDir.replace(/"/g, '\\"')}"`;
+  return `formglean review queue --results ${dir}`;
+}
+
+/** The answers of a CSV queue's rows; rows nobody answered are counted, unreadable ones refused. */
+export function answersFromQueue(entries: readonly QueueEntry[]): { answers: Answer[]; unanswered: number; problems: RowProblem[] } {
+  const out: ReturnType<typeof answersFromQueue> = { answers: [], unanswered: 0, problems: [] };
+  for (const { line, cells } of entries) {
+    const rowId = (cells.row_id ?? '').trim();
+    const correction = (cells.correction ?? '').trim();
+    const confirm = readConfirm(cells.confirm);
+    if (correction === '' && confirm === 'not_confirmed') {
+      out.unanswered++;
+      continue;
+    }
+    if (rowId === '') {
+      out.problems.push({ line, rowId, message: 'no row_id; answers can only be applied to rows exported by formglean' });
+      continue;
+    }
+    if (confirm === 'unreadable') {
+      out.problems.push({ line, rowId, message: 'confirm must be yes (or left empty)' });
+      continue;
+    }
+    const note = (cells.note ?? '').trim() || undefined;
+    out.answers.push({
+      line,
+      rowId,
+      resultHash: (cells.result_hash ?? '').trim(),
+      document: cells.document?.trim() || undefined,
+      field: cells.field?.trim() || undefined,
+      action: correction !== '' ? { kind: 'correct', text: correction } : { kind: 'confirm' },
+      ...(note !== undefined ? { note } : {}),
+    });
+  }
+  return out;
+}
+
+type Decision = { update: FieldUpdate } | { already: true } | { problem: string };
+
+/** What one answer does to its field. Pure; the value never appears in a message. */
+function decideAnswer(input: PlanInput, a: Answer, doc: PlanDocument, field: FieldResult): Decision {
+  const docId = doc.result.document.id;
+  let value: FieldValue;
+  let status: FieldResult['status'];
+  let extra: FieldUpdate['extra'];
+  let action: AuditEntry['action'];
+  if (a.action.kind === 'revert') {
+    if (field.review === undefined || isPending(field.status) || field.status === 'accepted')
+      return { problem: `field "${field.name}" of document "${docId}" holds no review answer to undo` };
+    value = field.review.previousValue;
+    status = field.review.previousStatus;
+    extra = field.review.previousExtra ?? null;
+    action = 'reverted';
+  } else if (a.action.kind === 'correct' && isEmptyCorrection(a.action.text)) {
+    value = null;
+    extra = null;
+    status = field.value === null && field.status !== 'corrected' ? 'confirmed' : 'corrected';
+    action = status;
+  } else if (a.action.kind === 'correct') {
+    const typing = input.typing(doc.result, field);
+    if ('error' in typing) return { problem: typing.error };
+    const r = typing.type.parseCorrection(a.action.text, typing.options, { today: input.today });
+    if (r.outcome === 'invalid' || r.outcome === 'ambiguous') {
+      const why = r.reasons.length ? r.reasons.join(', ') : r.outcome;
+      const accepts = typing.type.acceptedInput(typing.options);
+      return { problem: `correction for field "${field.name}" is not a valid ${field.type} (${why}); the field accepts ${accepts}; not applied` };
+    }
+    value = r.value;
+    // The value as read, typed again: the reviewer confirms it (the field keeps its extra forms).
+    const same = sameValue(value, field.value) && field.status !== 'corrected';
+    extra = same ? undefined : r.extra && Object.keys(r.extra).length > 0 ? r.extra : null;
+    status = same ? 'confirmed' : 'corrected';
+    action = status;
+  } else {
+    value = field.value;
+    status = 'confirmed';
+    extra = undefined;
+    action = 'confirmed';
+  }
+
+  if (action !== 'reverted' && field.status === status && sameValue(field.value, value) && field.review?.note === a.note) return { already: true };
+  return {
+    update: {
+      extra,
+      entry: {
+        at: input.at,
+        reviewer: input.reviewer,
+        action,
+        document: docId,
+        field: field.name,
+        rowId: a.rowId,
+        previousValue: field.value,
+        previousStatus: field.status,
+        value,
+        status,
+        ...(a.note !== undefined ? { note: a.note } : {}),
+        queue: input.queue,
+        line: a.line,
+        via: input.via,
+      },
+    },
+  };
+}
+
 /**
- * Decide, row by row, what a reviewed queue changes. Pure: reads the documents, returns the changes and the
- * refused rows with their line numbers. A row is refused when its id is unknown, its document's result changed
- * since the queue was exported, its confirm cell is unreadable, or its correction fails the field type's checks.
+ * Decide, answer by answer, what the answers change. Pure: reads the documents, returns the changes and the
+ * refused answers with their queue lines. An answer is refused when its row id is unknown, its document's result
+ * changed since the queue was written, or its correction fails the field type's checks.
  */
 export function planApply(input: PlanInput): ApplyPlan {
   const byRowId = new Map<string, { doc: PlanDocument; field: FieldResult }>();
@@ -73,25 +202,9 @@ export function planApply(input: PlanInput): ApplyPlan {
   const answeredAt = new Map<string, number>();
   const plan: ApplyPlan = { updates: [], alreadyApplied: [], unanswered: 0, problems: [] };
 
-  for (const { line, cells } of input.entries) {
-    const rowId = (cells.row_id ?? '').trim();
-    const correction = (cells.correction ?? '').trim();
-    const confirm = readConfirm(cells.confirm);
-    const note = (cells.note ?? '').trim() || undefined;
+  for (const a of input.answers) {
+    const { line, rowId } = a;
     const refuse = (message: string) => plan.problems.push({ line, rowId, message });
-
-    if (correction === '' && confirm === 'not_confirmed') {
-      plan.unanswered++;
-      continue;
-    }
-    if (rowId === '') {
-      refuse('no row_id; answers can only be applied to rows exported by formglean');
-      continue;
-    }
-    if (confirm === 'unreadable') {
-      refuse('confirm must be yes (or left empty)');
-      continue;
-    }
     const target = byRowId.get(rowId);
     if (!target) {
       refuse(`unknown row id ${rowId}: no document in the results folder has this field`);
@@ -99,12 +212,12 @@ export function planApply(input: PlanInput): ApplyPlan {
     }
     const { doc, field } = target;
     const docId = doc.result.document.id;
-    if (cells.document !== undefined && cells.document.trim() !== '' && cells.document.trim() !== docId) {
-      refuse(`row id ${rowId} belongs to document "${docId}", the row names "${cells.document.trim()}"`);
+    if (a.document !== undefined && a.document !== docId) {
+      refuse(`row id ${rowId} belongs to document "${docId}", the row names "${a.document}"`);
       continue;
     }
-    if (cells.field !== undefined && cells.field.trim() !== '' && cells.field.trim() !== field.name) {
-      refuse(`row id ${rowId} belongs to field "${field.name}", the row names "${cells.field.trim()}"`);
+    if (a.field !== undefined && a.field !== field.name) {
+      refuse(`row id ${rowId} belongs to field "${field.name}", the row names "${a.field}"`);
       continue;
     }
     const earlier = answeredAt.get(rowId);
@@ -118,63 +231,14 @@ export function planApply(input: PlanInput): ApplyPlan {
       fp = resultFingerprint(doc.raw);
       fingerprints.set(doc, fp);
     }
-    if ((cells.result_hash ?? '').trim() !== fp) {
-      refuse(`the result of document "${docId}" changed since this queue was exported (extracted again?); export a new queue`);
+    if (a.resultHash !== fp) {
+      refuse(`the result of document "${docId}" changed since this queue was written (extracted again?); make a new queue with: ${newQueueCommand(input.resultsDir)}`);
       continue;
     }
-
-    let value: FieldValue;
-    let status: 'corrected' | 'confirmed';
-    let extra: FieldUpdate['extra'];
-    if (correction !== '') {
-      status = 'corrected';
-      if (isEmptyCorrection(correction)) {
-        value = null;
-        extra = null;
-      } else {
-        const typing = input.typing(doc.result, field);
-        if ('error' in typing) {
-          refuse(typing.error);
-          continue;
-        }
-        const r = typing.type.parseCorrection(correction, typing.options, { today: input.today });
-        if (r.outcome === 'invalid' || r.outcome === 'ambiguous') {
-          const why = r.reasons.length ? r.reasons.join(', ') : r.outcome;
-          refuse(`correction for field "${field.name}" is not a valid ${field.type} (${why}); not applied`);
-          continue;
-        }
-        value = r.value;
-        extra = r.extra && Object.keys(r.extra).length > 0 ? r.extra : null;
-      }
-    } else {
-      status = 'confirmed';
-      value = field.value;
-      extra = undefined;
-    }
-
-    const ref: RowRef = { line, rowId, document: docId, field: field.name };
-    if (field.status === status && sameValue(field.value, value) && field.review?.note === note) {
-      plan.alreadyApplied.push(ref);
-      continue;
-    }
-    plan.updates.push({
-      extra,
-      entry: {
-        at: input.at,
-        reviewer: input.reviewer,
-        action: status,
-        document: docId,
-        field: field.name,
-        rowId,
-        previousValue: field.value,
-        previousStatus: field.status,
-        value,
-        status,
-        ...(note !== undefined ? { note } : {}),
-        queue: input.queue,
-        line,
-      },
-    });
+    const d = decideAnswer(input, a, doc, field);
+    if ('problem' in d) refuse(d.problem);
+    else if ('already' in d) plan.alreadyApplied.push({ line, rowId, document: docId, field: field.name });
+    else plan.updates.push(d.update);
   }
   return plan;
 }

@@ -4,8 +4,8 @@ import { writeJsonAtomic } from '../io/atomic-write.js';
 import type { DocumentResult, FieldResult } from '../result/document.js';
 import { DocumentResult as DocumentResultSchema } from '../result/document.js';
 import { withApplyLock } from './apply-lock.js';
-import type { RowProblem } from './apply-plan.js';
-import { planApply, type FieldUpdate } from './apply-plan.js';
+import type { Answer, RowProblem } from './apply-plan.js';
+import { answersFromQueue, planApply, type FieldUpdate } from './apply-plan.js';
 import type { AuditEntry } from './audit.js';
 import { appendAudit, readAudit } from './audit.js';
 import type { FieldTyping } from './field-options.js';
@@ -27,6 +27,8 @@ export interface ApplyOptions {
 export interface ApplyReport {
   corrected: number;
   confirmed: number;
+  /** Answers undone on the review page. */
+  reverted: number;
   alreadyApplied: number;
   unanswered: number;
   documentsWritten: number;
@@ -62,26 +64,44 @@ async function typingsFor(source: FieldOptionsSource, docs: readonly StoredResul
   return (doc, f) => cache.get(key(doc, f)) ?? { error: `field "${f.name}": no schema options` };
 }
 
+/** Where answers come from: the queue file they answer (recorded in the audit log) and how they were given. */
+export interface AnswerSource {
+  queue: string;
+  via: 'queue' | 'page';
+}
+
+export type AnswersReport = Omit<ApplyReport, 'extraColumns'> & {
+  /** The documents as they are after the answers (for callers that show them, like the review page). */
+  documents: StoredResult[];
+};
+
 /**
- * Apply a reviewed queue to the results folder: every document JSON that gets an answer is rewritten atomically,
- * then the audit log, then results.jsonl and summary.json. Each write is atomic; a run cut off between writes is
- * completed by running it again (documents already holding their answer are left alone, missing audit lines are
- * written from the documents' review blocks). A second run of the same queue writes nothing.
+ * Apply answers to the results folder: the one path every answer takes, from a CSV queue or from the review page.
+ * Every document JSON that gets an answer is rewritten atomically, then the audit log, then results.jsonl and
+ * summary.json. Each write is atomic; a run cut off between writes is completed by running it again (documents
+ * already holding their answer are left alone, missing audit lines are written from the documents' review blocks).
+ * Answering again what a document already holds writes nothing.
  */
-export async function applyReviewQueue(queueFile: string, resultsDir: string, options: ApplyOptions = {}): Promise<ApplyReport> {
-  const queue = await readReviewQueue(queueFile);
+export async function applyAnswers(
+  resultsDir: string,
+  answers: readonly Answer[],
+  source: AnswerSource,
+  options: ApplyOptions = {},
+): Promise<AnswersReport> {
   return withApplyLock(reviewDir(resultsDir), async () => {
     const folder = await readResultsFolder(resultsDir);
-    const source = new FieldOptionsSource(resultsDir);
-    const typing = await typingsFor(source, folder.documents);
+    const fieldOptions = new FieldOptionsSource(resultsDir);
+    const typing = await typingsFor(fieldOptions, folder.documents);
     const plan = planApply({
-      entries: queue.entries,
+      answers,
       documents: folder.documents,
       typing,
       reviewer: options.reviewer?.trim() || defaultReviewer(),
       at: (options.now ?? new Date()).toISOString(),
       today: options.now ?? new Date(),
-      queue: path.resolve(queueFile),
+      queue: source.queue,
+      via: source.via,
+      resultsDir,
     });
 
     const current = new Map(folder.documents.map((d) => [d.result.document.id, d]));
@@ -94,7 +114,7 @@ export async function applyReviewQueue(queueFile: string, resultsDir: string, op
     }
 
     const audit = auditPath(resultsDir);
-    const recovered = recoveredEntries(plan.alreadyApplied, current, await readAudit(audit), path.resolve(queueFile));
+    const recovered = recoveredEntries(plan.alreadyApplied, current, await readAudit(audit), source.queue);
     await appendAudit(audit, [...plan.updates.map((u: FieldUpdate) => u.entry), ...recovered]);
     const results = [...current.values()].map((d) => d.result);
     await refreshResultsFiles(resultsDir, folder.lines, results);
@@ -103,15 +123,29 @@ export async function applyReviewQueue(queueFile: string, resultsDir: string, op
     return {
       corrected: plan.updates.filter((u) => u.entry.action === 'corrected').length,
       confirmed: plan.updates.filter((u) => u.entry.action === 'confirmed').length,
+      reverted: plan.updates.filter((u) => u.entry.action === 'reverted').length,
       alreadyApplied: plan.alreadyApplied.length,
       unanswered: plan.unanswered,
       documentsWritten: grouped.size,
       auditRecovered: recovered.length,
       problems: plan.problems,
-      changedSchemas: await source.changedSchemas(documents),
-      extraColumns: queue.extraColumns,
-    } satisfies ApplyReport;
+      changedSchemas: await fieldOptions.changedSchemas(documents),
+      documents: [...current.values()],
+    };
   });
+}
+
+/** Apply a reviewed CSV queue: its answered rows go through applyAnswers; unreadable rows are reported by line. */
+export async function applyReviewQueue(queueFile: string, resultsDir: string, options: ApplyOptions = {}): Promise<ApplyReport> {
+  const queue = await readReviewQueue(queueFile);
+  const read = answersFromQueue(queue.entries);
+  const { documents: _documents, ...report } = await applyAnswers(resultsDir, read.answers, { queue: path.resolve(queueFile), via: 'queue' }, options);
+  return {
+    ...report,
+    unanswered: read.unanswered,
+    problems: [...read.problems, ...report.problems].sort((a, b) => a.line - b.line),
+    extraColumns: queue.extraColumns,
+  };
 }
 
 export type { AuditEntry };

@@ -6,11 +6,12 @@ import { FieldStatus } from '../result/document.js';
 
 const Value = z.union([z.string(), z.number(), z.boolean(), z.array(z.string()), z.null()]);
 
-/** One line of review/audit.jsonl: one field changed by a person through the review queue. */
+/** One line of review/audit.jsonl: one field changed by a person through the review queue or the review page. */
 export const AuditEntry = z.object({
   at: z.string(),
   reviewer: z.string(),
-  action: z.enum(['corrected', 'confirmed']),
+  /** reverted: the field's earlier answer was undone on the review page (value and status restored). */
+  action: z.enum(['corrected', 'confirmed', 'reverted']),
   document: z.string(),
   field: z.string(),
   rowId: z.string(),
@@ -22,6 +23,8 @@ export const AuditEntry = z.object({
   /** The queue file and its line the answer came from. */
   queue: z.string(),
   line: z.number().int(),
+  /** How the answer was given: a row of the CSV queue, or the review page (formglean review serve). */
+  via: z.enum(['queue', 'page']).optional(),
   /** Set when the entry was written on a later run because the run that changed the document was cut off before it logged. */
   recovered: z.boolean().optional(),
 });

@@ -20,7 +20,7 @@ export interface RecordTable {
 /** Suffix of the optional per-field status column. */
 export const STATUS_SUFFIX = '.status';
 
-/** One flat table of records: a row per document, a column per field (first-seen order across schemas). Pure. */
+/** One flat table of records: a row per document, a column per field (first-seen order across schemas); export uses it per layout. Pure. */
 export function recordTable(results: readonly DocumentResult[], options: { withStatus?: boolean } = {}): RecordTable {
   const sorted = [...results].sort((a, b) => (a.document.id < b.document.id ? -1 : a.document.id > b.document.id ? 1 : 0));
   const fieldNames: string[] = [];
@@ -43,6 +43,17 @@ export function recordTable(results: readonly DocumentResult[], options: { withS
     return row;
   });
   return { columns: [...RECORD_COLUMNS, ...fieldColumns], rows };
+}
+
+/**
+ * One table per layout (schema name), layouts in name order: forms of different layouts have different fields, and
+ * a same-named field of two forms may mean different things, so they never share a column. Pure.
+ */
+export function recordTablesByLayout(results: readonly DocumentResult[], options: { withStatus?: boolean } = {}): Map<string, RecordTable> {
+  const groups = new Map<string, DocumentResult[]>();
+  for (const r of results) groups.set(r.schema.name, [...(groups.get(r.schema.name) ?? []), r]);
+  const names = [...groups.keys()].sort();
+  return new Map(names.map((n) => [n, recordTable(groups.get(n)!, options)]));
 }
 
 /** JSON Lines (one JSON object per line, values in their JSON types). */

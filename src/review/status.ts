@@ -7,43 +7,71 @@ export interface ReviewCounts {
   confirmed: number;
 }
 
+/** Where review stands for one form layout (schema): its documents, and only the fields that had doubtful rows. */
+export interface LayoutStatus extends ReviewCounts {
+  layout: string;
+  documents: number;
+  /** Documents with no field waiting: every field accepted, or answered by a reviewer. */
+  documentsDone: number;
+  /** Fields that went to review in at least one document (still waiting, corrected or confirmed), schema order. */
+  fields: ({ field: string } & ReviewCounts)[];
+}
+
 export interface ReviewStatus {
   total: ReviewCounts;
-  /** Per field name, in order of first appearance. */
-  byField: ({ field: string } & ReviewCounts)[];
-  /** Per document, in id order. */
-  byDocument: ({ document: string } & ReviewCounts)[];
+  byLayout: LayoutStatus[];
+  /** Documents with at least one field that went to review, in id order. */
+  byDocument: ({ document: string; layout: string } & ReviewCounts)[];
 }
 
 function zero(): ReviewCounts {
   return { pending: 0, corrected: 0, confirmed: 0 };
 }
 
-/** Where review stands: fields still waiting, and fields a person corrected or confirmed. Pure. */
+function any(c: ReviewCounts): boolean {
+  return c.pending + c.corrected + c.confirmed > 0;
+}
+
+/**
+ * Where review stands: fields still waiting, and fields a person corrected or confirmed, grouped by the layout
+ * (schema) the documents were read with; fields and documents that never needed a person are left out. Pure.
+ */
 export function reviewStatus(results: readonly DocumentResult[]): ReviewStatus {
   const total = zero();
-  const byField = new Map<string, ReviewCounts>();
-  const byDocument = new Map<string, ReviewCounts>();
+  const layouts = new Map<string, LayoutStatus & { byField: Map<string, ReviewCounts> }>();
+  const byDocument: ReviewStatus['byDocument'] = [];
   const sorted = [...results].sort((a, b) => (a.document.id < b.document.id ? -1 : a.document.id > b.document.id ? 1 : 0));
   for (const r of sorted) {
+    const name = r.schema.name;
+    let layout = layouts.get(name);
+    if (!layout) {
+      layout = { layout: name, documents: 0, documentsDone: 0, ...zero(), fields: [], byField: new Map() };
+      layouts.set(name, layout);
+    }
+    layout.documents++;
     const d = zero();
-    byDocument.set(r.document.id, d);
     for (const f of r.fields) {
       const key: keyof ReviewCounts | undefined = isPending(f.status)
         ? 'pending'
         : f.status === 'corrected' || f.status === 'confirmed'
           ? f.status
           : undefined;
-      if (!byField.has(f.name)) byField.set(f.name, zero());
       if (key === undefined) continue;
       total[key]++;
       d[key]++;
-      byField.get(f.name)![key]++;
+      layout[key]++;
+      if (!layout.byField.has(f.name)) layout.byField.set(f.name, zero());
+      layout.byField.get(f.name)![key]++;
     }
+    if (d.pending === 0) layout.documentsDone++;
+    if (any(d)) byDocument.push({ document: r.document.id, layout: name, ...d });
   }
-  return {
-    total,
-    byField: [...byField].map(([field, c]) => ({ field, ...c })),
-    byDocument: [...byDocument].map(([document, c]) => ({ document, ...c })),
-  };
+  // Fields in the order the layout's documents list them (schema order), not the order they first went to review.
+  const byLayout = [...layouts.values()].map(({ byField, ...l }) => {
+    const order = sorted.find((r) => r.schema.name === l.layout)!.fields.map((f) => f.name);
+    const names = [...byField.keys()].sort((a, b) => order.indexOf(a) - order.indexOf(b));
+    return { ...l, fields: names.map((field) => ({ field, ...byField.get(field)! })) };
+  });
+  byLayout.sort((a, b) => (a.layout < b.layout ? -1 : a.layout > b.layout ? 1 : 0));
+  return { total, byLayout, byDocument };
 }

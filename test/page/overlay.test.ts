@@ -5,8 +5,9 @@ import path from 'node:path';
 import sharp from 'sharp';
 import { Command } from 'commander';
 import { describe, expect, it } from 'vitest';
-import { registerOverlayCommand, STATUS_COLOURS } from '../../src/cli/overlay.js';
-import { overlaySvg } from '../../src/page/overlay.js';
+import { registerOverlayCommand, resultOverlayItems, STATUS_COLOURS } from '../../src/cli/overlay.js';
+import { decodeDocument } from '../../src/input/decode.js';
+import { captionPlates, overlaySvg } from '../../src/page/overlay.js';
 import { countStatuses, RESULT_FORMAT } from '../../src/result/document.js';
 import type { DocumentResult, FieldResult, FieldStatus } from '../../src/result/document.js';
 
@@ -105,5 +106,60 @@ describe('formglean overlay', () => {
     const bad = path.join(dir, 'bad.json');
     writeFileSync(bad, '{"format": 1}');
     await expect(runOverlay([bad, '--out', path.join(dir, 'o.png')])).rejects.toThrow(/bad\.json: not a formglean document result/);
+  });
+
+  /** Mean absolute gray difference between the overlay written and a decoded page (same size). */
+  async function meanDiff(png: string, page: { data: Uint8Array; width: number; height: number }): Promise<number> {
+    const { data, info } = await sharp(png).greyscale().raw().toBuffer({ resolveWithObject: true });
+    expect([info.width, info.height]).toEqual([page.width, page.height]);
+    let sum = 0;
+    for (let i = 0; i < page.data.length; i++) sum += Math.abs(data[i] - page.data[i]);
+    return sum / page.data.length;
+  }
+
+  /** The record of the second form of a two-form file, built from its truth: boxes scaled to the decoded page. */
+  function secondFormRecord(file: string, scale: number): DocumentResult {
+    const truth = JSON.parse(readFileSync('samples/truth/clinic-intake-batch.p2.json', 'utf8'));
+    const r = resultFor(file);
+    r.document.id = 'clinic-intake-batch.p2';
+    r.fields = r.fields.slice(0, 0).concat(
+      truth.fields.map((f: { name: string; type: string; box: number[] }) => ({
+        ...r.fields[0], name: f.name, type: f.type, status: 'review' as const,
+        box: { page: 0, x: f.box[0] * scale, y: f.box[1] * scale, w: f.box[2] * scale, h: f.box[3] * scale },
+      })),
+    );
+    r.counts = countStatuses(r.fields);
+    r.pages = [{ index: 0, filePage: truth.filePage, width: truth.width * scale, height: truth.height * scale, rotation: 0, skew: 0, alignment: null, detections: 0 }];
+    return r;
+  }
+
+  for (const [file, scale] of [
+    ['samples/clinic-intake-batch.tif', 1],
+    // Rendered at 200 DPI from 150-DPI page images (test/fixtures/pdf/README.md).
+    ['test/fixtures/pdf/clinic-intake-batch.pdf', 200 / 150],
+  ] as const) {
+    it(`draws the second form of ${path.basename(file)} on the file's second page, not its first`, async () => {
+      const dir = mkdtempSync(path.join(os.tmpdir(), 'overlay-'));
+      const resultFile = path.join(dir, 'clinic-intake-batch.p2.json');
+      writeFileSync(resultFile, JSON.stringify(secondFormRecord(path.resolve(file), scale)));
+      const out = path.join(dir, 'o.png');
+      await runOverlay([resultFile, '--out', out]);
+      const doc = await decodeDocument(path.resolve(file));
+      expect(doc.pages).toHaveLength(2);
+      const toSecond = await meanDiff(out, doc.pages[1]);
+      const toFirst = await meanDiff(out, doc.pages[0]);
+      // Frames and captions change a small share of pixels; the other form's page differs everywhere it was filled
+      // in and scanned with other skew and light.
+      expect(toSecond).toBeLessThan(toFirst / 2);
+    });
+  }
+
+  it('places captions where they cover no field box', () => {
+    const r = resultFor(SAMPLE);
+    const items = resultOverlayItems(r, 0, false);
+    const k = TRUTH.width / 1700;
+    const plates = captionPlates(TRUTH.width, TRUTH.height, items, Math.round(22 * k), Math.round(4 * k));
+    const hits = plates.filter((p) => p !== null && items.some((it) => p.x < it.box.x + it.box.w && it.box.x < p.x + p.w && p.y < it.box.y + it.box.h && it.box.y < p.y + p.h));
+    expect(hits).toEqual([]);
   });
 });

@@ -76,7 +76,7 @@ describe('review apply', () => {
     expect(report.extraColumns).toEqual(['my_initials']);
     expect(report.problems).toHaveLength(1);
     expect(report.problems[0].line).toBe(badLine);
-    expect(report.problems[0].message).toMatch(/visit_date.*not a valid date/);
+    expect(report.problems[0].message).toMatch(/visit_date.*not a valid date \(invalid_date\); the field accepts a date as MM\/DD\/YYYY or YYYY-MM-DD;/);
     expect(report.problems[0].message).not.toContain('02/30'); // logs carry no field values
 
     const d1 = await readDoc(dir, 'intake-0001');
@@ -140,7 +140,7 @@ describe('review apply', () => {
     const report = await applyReviewQueue(queue, dir, { reviewer: 'R. Quill' });
     expect(report.confirmed).toBe(1);
     expect(report.problems.map((p) => p.message)).toEqual([
-      expect.stringMatching(/intake-0002.*changed since this queue was exported/),
+      expect.stringMatching(new RegExp(`intake-0002.*changed since this queue was written.*make a new queue with: formglean review queue --results ${dir}$`)),
       expect.stringMatching(/unknown row id r00000000deadbeef/),
     ]);
     expect((await readDoc(dir, 'intake-0002')).fields[2].status).toBe('review');
@@ -167,5 +167,20 @@ describe('review apply', () => {
     await expect(applyReviewQueue(queue, dir)).rejects.toThrow(new RegExp(`line ${lines.length}: row has a different number of cells`));
     expect((await snapshot(dir)).get('intake-0001.json')).toBe(before.get('intake-0001.json'));
     expect([...(await snapshot(dir)).keys()].filter((k) => k.includes('audit'))).toEqual([]);
+  });
+
+  it('takes a correction equal to the value as a confirmation, and "(empty)" on a blank field as confirming it blank', async () => {
+    const { dir, queue, rows } = await exported(1);
+    // The value as read, typed again in another notation: the same E.164 number (libphonenumber-js, reference library).
+    pick(rows, 'intake-0001', 'phone').correction = '(207) 555-0142';
+    pick(rows, 'intake-0001', 'pet_name').correction = '(empty)';
+    await saveAsSpreadsheet(queue, rows);
+    const report = await applyReviewQueue(queue, dir, { reviewer: 'R. Quill' });
+    expect(report).toMatchObject({ corrected: 0, confirmed: 2 });
+    const f = Object.fromEntries((await readDoc(dir, 'intake-0001')).fields.map((x) => [x.name, x]));
+    expect(f.phone).toMatchObject({ value: '+12075550142', status: 'confirmed', extra: { national: '(207) 555-0142' } });
+    expect(f.pet_name).toMatchObject({ value: null, status: 'confirmed', review: { previousStatus: 'missing' } });
+    const audit = await readAudit(path.join(dir, 'review', 'audit.jsonl'));
+    expect(audit.map((e) => [e.field, e.action, e.via])).toEqual([['phone', 'confirmed', 'queue'], ['pet_name', 'confirmed', 'queue']]);
   });
 });

@@ -1,5 +1,5 @@
 import { execFile } from 'node:child_process';
-import { readFile, rm, writeFile } from 'node:fs/promises';
+import { readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { parse } from 'csv-parse/sync';
@@ -54,5 +54,55 @@ describe('review and export commands', () => {
 
     const usage = await run(['export', '--results', dir, '--format', 'xml']);
     expect(usage.code).toBe(2);
+  });
+
+  it('review queue writes a fresh queue after a re-extraction, named by the refusal; status groups by layout; export splits layouts', async () => {
+    const { dir, docs } = await makeResultsFolder(2, 'fg-review-cli-');
+    dirs.push(dir);
+    await writeReviewQueue(dir, docs);
+    const queue = path.join(dir, 'review', 'queue.csv');
+    const rows = parse(await readFile(queue), { bom: true, columns: true }) as Record<string, string>[];
+    const phone = rows.find((r) => r.document === 'intake-0002' && r.field === 'phone')!;
+    phone.confirm = 'yes';
+    await writeFile(queue, stringify(rows, { header: true }));
+    // intake-0002 is extracted again (another run time), and becomes a marina-slip form for the layout split below.
+    const file = path.join(dir, 'intake-0002.json');
+    const doc = JSON.parse(await readFile(file, 'utf8'));
+    doc.createdAt = '2026-03-05T08:00:00.000Z';
+    doc.schema.name = 'marina-slip';
+    await writeFile(file, JSON.stringify(doc, null, 2));
+
+    const stale = await run(['review', 'apply', queue, '--results', dir]);
+    expect(stale.code).toBe(1);
+    const command = `formglean review queue --results ${dir}`;
+    expect(stale.stderr).toContain(`make a new queue with: ${command}`);
+    const fresh = await run(command.split(' ').slice(1));
+    expect(fresh.code).toBe(0);
+    const again = parse(await readFile(queue), { bom: true, columns: true }) as Record<string, string>[];
+    const newPhone = again.find((r) => r.document === 'intake-0002' && r.field === 'phone')!;
+    expect(newPhone.result_hash).not.toBe(phone.result_hash);
+    expect(newPhone.confirm).toBe(''); // an answer given for the old reading is not carried onto the new one
+    // The old queue with its typed answer is kept beside it.
+    expect((await readdir(path.join(dir, 'review'))).some((n) => /^queue\..+\.csv$/.test(n))).toBe(true);
+
+    const status = await run(['review', 'status', '--results', dir]);
+    expect(status.stdout).toMatch(/layout clinic-intake: 1 document\(s\)/);
+    expect(status.stdout).toMatch(/layout marina-slip: 1 document\(s\)/);
+    expect(status.stdout).not.toMatch(/^email /m); // accepted everywhere: not listed
+
+    const usage = await run(['export', '--results', dir]);
+    expect(usage.code).toBe(2);
+    expect(usage.stderr).toContain('2 layouts (clinic-intake, marina-slip)');
+    const out = path.join(dir, 'records.csv');
+    expect((await run(['export', '--results', dir, '--out', out])).code).toBe(0);
+    const clinic = parse(await readFile(path.join(dir, 'records.clinic-intake.csv')), { columns: true }) as Record<string, string>[];
+    const marina = parse(await readFile(path.join(dir, 'records.marina-slip.csv')), { columns: true }) as Record<string, string>[];
+    expect([clinic.map((r) => r['document.id']), marina.map((r) => r['document.id'])]).toEqual([['intake-0001'], ['intake-0002']]);
+    const one = await run(['export', '--results', dir, '--schema', 'marina-slip', '--format', 'jsonl']);
+    expect(one.stdout.trim().split('\n').map((l) => JSON.parse(l)['document.id'])).toEqual(['intake-0002']);
+
+    const help = await run(['review', '--help']);
+    expect(help.stdout).toContain('below_review_threshold');
+    expect(help.stdout).toContain('serve');
   });
 });

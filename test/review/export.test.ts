@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parse } from 'csv-parse/sync';
-import { recordsCsv, recordsJsonl, recordTable } from '../../src/review/export-table.js';
+import { recordsCsv, recordsJsonl, recordTable, recordTablesByLayout } from '../../src/review/export-table.js';
 import { reviewStatus } from '../../src/review/status.js';
 import { documentResult, field } from './fixture.js';
 
@@ -10,23 +10,27 @@ const clinic = documentResult('intake-0002', [
   field('weight_kg', 'number', -1.5, 'review'),
   field('vaccinated', 'checkbox', true, 'accepted'),
 ]);
-const marina = documentResult('slip-0001', [
+const marinaFields = [
   field('owner_name', 'text', 'Sam Harbor', 'accepted'),
   field('services', 'choice', ['water', 'power'], 'accepted'),
   field('boat_length_ft', 'number', null, 'missing'),
-]);
+];
+const marina = { ...documentResult('slip-0001', marinaFields), schema: { name: 'marina-slip', version: '3', path: '/nonexistent/marina-slip.yaml', sha256: 'c'.repeat(64) } };
 
 describe('export', () => {
   const table = recordTable([marina, clinic], { withStatus: true });
+  const tables = recordTablesByLayout([marina, clinic], { withStatus: true });
 
-  it('makes one row per document and one column per field across schemas', () => {
-    expect(table.rows.map((r) => r['document.id'])).toEqual(['intake-0002', 'slip-0001']);
-    expect(table.columns.slice(6)).toEqual([
-      'owner_name', 'owner_name.status', 'phone', 'phone.status', 'weight_kg', 'weight_kg.status',
-      'vaccinated', 'vaccinated.status', 'services', 'services.status', 'boat_length_ft', 'boat_length_ft.status',
-    ]);
-    expect(table.rows[0]['review.pending']).toBe(1);
-    expect(table.rows[1].phone).toBeNull();
+  it('makes one table per layout: a row per document, a column per field of that layout only', () => {
+    expect([...tables.keys()]).toEqual(['clinic-intake', 'marina-slip']);
+    const c = tables.get('clinic-intake')!;
+    const m = tables.get('marina-slip')!;
+    expect(c.rows.map((r) => r['document.id'])).toEqual(['intake-0002']);
+    expect(c.columns.slice(6)).toEqual(['owner_name', 'owner_name.status', 'phone', 'phone.status', 'weight_kg', 'weight_kg.status', 'vaccinated', 'vaccinated.status']);
+    expect(m.columns.slice(6)).toEqual(['owner_name', 'owner_name.status', 'services', 'services.status', 'boat_length_ft', 'boat_length_ft.status']);
+    expect(c.rows[0]['review.pending']).toBe(1);
+    // Same-named fields of different forms no longer share a column: each table has its own owner_name.
+    expect(m.rows[0].owner_name).toBe('Sam Harbor');
   });
 
   it('writes JSON Lines with values in their JSON types', () => {
@@ -51,13 +55,20 @@ describe('export', () => {
 });
 
 describe('review status', () => {
-  it('counts pending, corrected and confirmed per field and per document', () => {
+  it('groups by layout and lists only the fields and documents that went to review', () => {
     const s = reviewStatus([marina, clinic]);
     expect(s.total).toEqual({ pending: 2, corrected: 1, confirmed: 1 });
     expect(s.byDocument).toEqual([
-      { document: 'intake-0002', pending: 1, corrected: 1, confirmed: 1 },
-      { document: 'slip-0001', pending: 1, corrected: 0, confirmed: 0 },
+      { document: 'intake-0002', layout: 'clinic-intake', pending: 1, corrected: 1, confirmed: 1 },
+      { document: 'slip-0001', layout: 'marina-slip', pending: 1, corrected: 0, confirmed: 0 },
     ]);
-    expect(s.byField.find((f) => f.field === 'owner_name')).toEqual({ field: 'owner_name', pending: 0, corrected: 1, confirmed: 0 });
+    expect(s.byLayout.map((l) => [l.layout, l.documents, l.documentsDone])).toEqual([['clinic-intake', 1, 0], ['marina-slip', 1, 0]]);
+    // Accepted-only fields (vaccinated, services, the marina's owner_name) are not listed.
+    expect(s.byLayout[0].fields).toEqual([
+      { field: 'owner_name', pending: 0, corrected: 1, confirmed: 0 },
+      { field: 'phone', pending: 0, corrected: 0, confirmed: 1 },
+      { field: 'weight_kg', pending: 1, corrected: 0, confirmed: 0 },
+    ]);
+    expect(s.byLayout[1].fields).toEqual([{ field: 'boat_length_ft', pending: 1, corrected: 0, confirmed: 0 }]);
   });
 });
