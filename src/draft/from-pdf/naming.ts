@@ -35,6 +35,11 @@ export function words(text: string): string[] {
     .filter((w) => w !== '');
 }
 
+/** The last word of a field's partial name that is not a bare number ("month1" -> "month"). */
+export function lastNameWord(qualified: string): string {
+  return words(partialName(qualified)).filter((w) => !/^\d+$/.test(w)).at(-1) ?? '';
+}
+
 /** Whether a name says something: not generated, and holding at least one word of three letters. */
 export function isMeaningfulName(name: string): boolean {
   if (GENERATED.some((re) => re.test(name.trim()))) return false;

@@ -94,15 +94,18 @@ async function fillPage(bytes: Uint8Array, draft: PdfSchemaDraft, o: FillPdfOpti
   let base: GrayImage;
   let ink: string;
   let pen: string;
-  if (mode === 'typed') {
-    base = await renderPdfPage(await typedPdf(bytes, o.form, fills), o.form, draft.page, draft.dpi);
+  const typed = mode === 'typed' ? await typedPdf(bytes, o.form, fills) : null;
+  if (typed) {
+    base = await renderPdfPage(typed, o.form, draft.page, draft.dpi);
     ink = signaturesSvg(fills, rng.fork('ink'), SIGNATURE_INK);
     pen = 'pdf-appearance';
   } else {
+    // Handwriting; or typed values drawn over the blank in a typewriter font, for the few forms whose own fields
+    // pdf-lib cannot flatten.
     base = draft.blank;
-    const p = drawPen(rng.fork('pen'), 'handwriting');
+    const p = drawPen(rng.fork('pen'), mode);
     ink = handwritingSvg(fills, p, rng.fork('ink'), o.drawCombCell);
-    pen = p.font;
+    pen = mode === 'typed' ? `${p.font}-overlay` : p.font;
   }
   if (base.width !== width || base.height !== height) throw configError(o.form, 'the filled page rendered at another size than the blank');
   if (ink !== '') base = darkest(base, await rasterizeSvg(svgDocument(width, height, ink)));

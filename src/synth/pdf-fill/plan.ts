@@ -43,6 +43,9 @@ export function planFill(sources: readonly FieldSource[], rng: Rng): PdfFieldFil
         if (skip) return { src, value: src.field.type === 'signature' ? false : null, text: null };
         if (src.field.type === 'signature') return { src, value: true, text: null };
         const v = drawPdfValue(r, src, persona);
+        // A value that does not fit the field's maximum length cannot be typed into it: the field stays blank.
+        const max = src.widgets[0].maxLength;
+        if (max !== undefined && v.text.length > max) return { src, value: null, text: null };
         return { src, value: v.value, text: v.text };
       }
     }

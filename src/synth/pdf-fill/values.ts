@@ -1,5 +1,6 @@
 import type { FieldSource } from '../../draft/from-pdf/assemble.js';
-import { partialName, words } from '../../draft/from-pdf/naming.js';
+import { DATE_PARTS } from '../../draft/from-pdf/guess-type.js';
+import { lastNameWord, partialName, words } from '../../draft/from-pdf/naming.js';
 import type { Rng } from '../prng.js';
 import { drawEmail, drawPhone } from '../values/contact.js';
 import { drawDate } from '../values/dates.js';
@@ -57,11 +58,13 @@ const KIND_WORDS: [string, string[]][] = [
   ['digits', ['number', 'numbers', 'no', 'id', 'file', 'identification', 'case']],
 ];
 
-/** The kind of entry a field's words ask for, or null when they say nothing about it. Identification numbers and
- *  initials win wherever they are named ("Social Security number, first three" is digits). */
+/** The kind of entry a field's words ask for, or null when they say nothing about it. Identification numbers,
+ *  initials and organisations win wherever they are named ("Social Security number, first three" is digits, "name
+ *  of committee" an organisation). */
 function kindOf(ws: readonly string[]): string | null {
   if (ws.some((w) => ['initial', 'mi'].includes(w))) return 'initial';
   if (ws.some((w) => ['ssn', 'social', 'security', 'itin', 'ein', 'tin', 'routing', 'account', 'zip', 'digits'].includes(w))) return 'digits';
+  if (ws.some((w) => KIND_WORDS[6][1].includes(w))) return 'org';
   // "Last name", "Name (first)": the part of a name wins over the word "name".
   if (ws.includes('name')) for (const [kind, list] of KIND_WORDS.slice(3, 6)) if (ws.some((w) => list.includes(w))) return kind;
   for (let i = ws.length - 1; i >= 0; i--) {
@@ -134,9 +137,10 @@ export function drawPdfValue(rng: Rng, src: FieldSource, persona: Persona): PdfV
     }
     case 'number': {
       if (o.integer) {
-        const last = words(partialName(w.fieldName)).at(-1) ?? '';
-        const n = last === 'month' || last === 'mm' ? rng.int(1, 12) : last === 'day' || last === 'dd' ? rng.int(1, 28) : ['year', 'yyyy', 'yy'].includes(last) ? rng.int(1950, 2024) : rng.int(1, 99);
-        const text = String(n).padStart(last === 'month' || last === 'day' ? 2 : 1, '0').slice(-(w.maxLength ?? 9));
+        const last = lastNameWord(w.fieldName);
+        const kind = DATE_PARTS.includes(last) ? last : [...ws].find((x) => DATE_PARTS.includes(x)) ?? '';
+        const n = ['month', 'mm', 'mo'].includes(kind) ? rng.int(1, 12) : ['day', 'dd'].includes(kind) ? rng.int(1, 28) : ['year', 'yyyy', 'yy', 'yr'].includes(kind) ? rng.int(1950, 2024) : rng.int(1, 99);
+        const text = String(n).padStart(['month', 'mm', 'mo', 'day', 'dd'].includes(kind) ? 2 : 1, '0').slice(-(w.maxLength ?? 9));
         return { value: Number(text), text };
       }
       const digits = Math.max(1, Math.min(6, cap - 3));
