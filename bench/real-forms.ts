@@ -15,7 +15,9 @@
  *
  * Options: --forms DIR, --count N pages per form (default 4; the issue's full run is --count 10), --seed S (default
  * 910000), --half dev|held-out|all (default all), --only a,b (file stems), --model FILE, --out DIR (default
- * bench/out/real-forms), --reuse (keep filled pages already there: they depend only on form, seed and index).
+ * bench/out/real-forms), --reuse (keep filled pages already there: they depend only on form, seed and index),
+ * --tables-only (fill and extract nothing: score and tabulate the pages and results already in --out, whatever their
+ * count, e.g. to join runs made with different --count or --only; forms with no results are listed as not run).
  * A form refused by `schema from-pdf` (XFA-only, no widgets) is listed with the reason and counted as failed.
  */
 import { existsSync } from 'node:fs';
@@ -24,6 +26,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { runBatch } from '../src/batch/run-batch.js';
+import { readResultsLines } from '../src/batch/sinks.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { oneLine } from '../src/errors.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
@@ -48,6 +51,7 @@ const { values: args } = parseArgs({
     model: { type: 'string', default: DEFAULT_MODEL_PATH },
     out: { type: 'string', default: path.join(ROOT, 'bench', 'out', 'real-forms') },
     reuse: { type: 'boolean', default: false },
+    'tables-only': { type: 'boolean', default: false },
   },
 });
 
@@ -97,21 +101,31 @@ try {
     const row: FormRow = { form, half: halfOf(file), fields: 0, pages: 0, failedPages: 0, refused: null, fillSeconds: 0, extractSeconds: 0, items: [] };
     rows.push(row);
     try {
-      const have = existsSync(path.join(samples, 'truth')) ? (await readdir(path.join(samples, 'truth'))).length : 0;
-      if (!args.reuse || have !== count) {
-        await rm(samples, { recursive: true, force: true });
-        const t0 = performance.now();
-        await fillPdfSamples({ form: path.join(args.forms!, file), page: 0, count, seed, out: samples, degrade: 'light', upsideDownRate: 0, fill: 'mixed' });
-        row.fillSeconds = (performance.now() - t0) / 1000;
+      if (args['tables-only']) {
+        if (!existsSync(path.join(results, 'results.jsonl'))) throw new Error('not run (no results in --out)');
+        const loaded = await loadSchema(path.join(samples, `${form}.yaml`));
+        row.fields = loaded.schema.fields.length;
+        const lines = await readResultsLines(results);
+        row.pages = lines.length;
+        row.failedPages = lines.filter((l) => !l.ok).length;
+        row.extractSeconds = lines.reduce((t, l) => t + (l.seconds ?? 0), 0);
+      } else {
+        const have = existsSync(path.join(samples, 'truth')) ? (await readdir(path.join(samples, 'truth'))).length : 0;
+        if (!args.reuse || have !== count) {
+          await rm(samples, { recursive: true, force: true });
+          const t0 = performance.now();
+          await fillPdfSamples({ form: path.join(args.forms!, file), page: 0, count, seed, out: samples, degrade: 'light', upsideDownRate: 0, fill: 'mixed' });
+          row.fillSeconds = (performance.now() - t0) / 1000;
+        }
+        const loaded = await loadSchema(path.join(samples, `${form}.yaml`));
+        row.fields = loaded.schema.fields.length;
+        const pages = (await readdir(samples)).filter((f) => f.endsWith('.png') && !f.endsWith('.blank.png')).map((f) => path.join(samples, f));
+        await rm(results, { recursive: true, force: true });
+        const report = await runBatch({ inputs: pages, schemas: [loaded], detector, outDir: results });
+        row.pages = pages.length;
+        row.failedPages = report.lines.filter((l) => !l.ok).length;
+        row.extractSeconds = report.summary.seconds;
       }
-      const loaded = await loadSchema(path.join(samples, `${form}.yaml`));
-      row.fields = loaded.schema.fields.length;
-      const pages = (await readdir(samples)).filter((f) => f.endsWith('.png') && !f.endsWith('.blank.png')).map((f) => path.join(samples, f));
-      await rm(results, { recursive: true, force: true });
-      const report = await runBatch({ inputs: pages, schemas: [loaded], detector, outDir: results });
-      row.pages = pages.length;
-      row.failedPages = report.lines.filter((l) => !l.ok).length;
-      row.extractSeconds = report.summary.seconds;
       const inputs = await loadScoreInputs(results, samples);
       row.items = scoreAll({ ...inputs, bins: DEFAULT_BINS }).items;
       say(`${form}: ${row.fields} fields, ${row.pages} pages (${row.failedPages} failed), fill ${row.fillSeconds.toFixed(0)} s, extract ${row.extractSeconds.toFixed(0)} s`);
@@ -180,7 +194,7 @@ for (const half of ['dev', 'held-out', 'unsplit'] as const) {
 out.push(formatRows(HEADER, [pooled('development', rows.filter((r) => r.half === 'dev')), pooled('held-out', rows.filter((r) => r.half === 'held-out')), pooled('all', rows)]));
 out.push(
   '',
-  `pages per form: ${count} (every other one typed), seed ${seed}, light scan degradation, shipped detector and defaults.`,
+  `${args['tables-only'] ? 'pages per form: as found in --out (see the failed column: failed/pages)' : `pages per form: ${count}`} (every other one typed), seed ${seed}, light scan degradation, shipped detector and defaults.`,
   'typed/hand exact: written text fields whose normalized value matches the truth (count); marks: tick decisions read ' +
     'right; accepted: share of all fields accepted without review; wrong|acc: wrong values among accepted (count accepted); ' +
     's/page: extract seconds per page.',
