@@ -7,7 +7,6 @@ import type { FillMode } from '../synth/fill.js';
 import { isDemoLayout, isLayoutName, LAYOUT_NAMES } from '../synth/layouts.js';
 import type { DegradeLevel } from '../synth/scan-params.js';
 import type { StyleSelection } from '../synth/style-families.js';
-import { fillPdfSamples } from '../synth/pdf-fill/fill-pdf.js';
 
 interface GenerateFlags {
   layout: string;
@@ -103,6 +102,8 @@ export function registerSamplesCommand(program: Command): void {
     .action(async (form: string, flags: { out: string; count: string; seed: string; page: string; fill: string; degrade: string; upsideDown: string }) => {
       const rate = Number(flags.upsideDown);
       if (!(rate >= 0 && rate <= 1)) throw configError(undefined, `--upside-down must be a share from 0 to 1; got "${flags.upsideDown}"`);
+      // Loaded on use: the PDF library is large, and every other command starts without it.
+      const { fillPdfSamples } = await import('../synth/pdf-fill/fill-pdf.js');
       const summary = await fillPdfSamples(
         {
           form,

@@ -1,6 +1,5 @@
 import type { Command } from 'commander';
 import { configError } from '../errors.js';
-import { blankImageName, draftFromPdf, writePdfSchema } from '../draft/from-pdf/from-pdf.js';
 
 interface FromPdfFlags {
   out: string;
@@ -20,6 +19,8 @@ export function addFromPdfSubcommand(schema: Command): void {
     .action(async (form: string, flags: FromPdfFlags) => {
       const page = Number(flags.page);
       if (!Number.isInteger(page) || page < 1) throw configError(undefined, `--page must be a page number from 1; got "${flags.page}"`);
+      // Loaded on use: the PDF library is large, and every other command starts without it.
+      const { blankImageName, draftFromPdf, writePdfSchema } = await import('../draft/from-pdf/from-pdf.js');
       const draft = await draftFromPdf(form, { page: page - 1, image: blankImageName(flags.out), name: flags.name });
       const written = await writePdfSchema(draft, flags.out);
       const byType = new Map<string, number>();
