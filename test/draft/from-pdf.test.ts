@@ -137,6 +137,19 @@ describe('schema from-pdf: names, types and refusals', () => {
     await expect(draftFromPdf('plain.pdf', { image: 'x.png', bytes })).rejects.toThrow(/^plain\.pdf: no fillable form fields/);
   });
 
+  it('refuses an XFA-only form (an AcroForm with no fields, the form in its XFA entry)', async () => {
+    // ISO 32000-1 §12.7.8: the XFA entry of the interactive form dictionary holds the XML form; its fields then have
+    // no widget annotations to read.
+    const { PDFDocument, PDFName } = await import('@cantoo/pdf-lib');
+    const doc = await PDFDocument.create();
+    doc.addPage([612, 792]);
+    const xfa = doc.context.flateStream('<xdp:xdp xmlns:xdp="http://ns.adobe.com/xdp/"/>');
+    const acro = doc.context.obj({ Fields: [], XFA: doc.context.register(xfa) });
+    doc.catalog.set(PDFName.of('AcroForm'), doc.context.register(acro));
+    const bytes = await doc.save();
+    await expect(draftFromPdf('xfa.pdf', { image: 'x.png', bytes })).rejects.toThrow(/^xfa\.pdf: XFA-only form/);
+  });
+
   it('refuses a page that does not exist', async () => {
     const bytes = await readFile(path.join(DIR, 'dol-wh384-2009.pdf'));
     const doc = await loadPdf(bytes, 'wh384.pdf');
