@@ -6,6 +6,7 @@ import { registerDetectorCommand } from './detector.js';
 import { registerExtractCommand } from './extract.js';
 import { registerSchemaCommand } from './schema.js';
 import { addDraftSubcommand } from './schema-draft.js';
+import { addFromPdfSubcommand } from './schema-from-pdf.js';
 import { registerScoreCommand } from './score.js';
 import { registerSamplesCommand } from './samples.js';
 import { registerReviewCommand } from './review.js';
@@ -22,7 +23,9 @@ program
 
 // Commands register themselves, one file per command.
 registerExtractCommand(program);
-addDraftSubcommand(registerSchemaCommand(program));
+const schemaCommand = registerSchemaCommand(program);
+addDraftSubcommand(schemaCommand);
+addFromPdfSubcommand(schemaCommand);
 registerScoreCommand(program);
 registerCalibrateCommand(program);
 registerDetectorCommand(program);

@@ -33,6 +33,17 @@ function integer(flag: string, value: string, min: number, max: number): number 
   return n;
 }
 
+/** A page counter on an interactive terminal. */
+function progress(count: string): (index: number) => void {
+  return (i) => {
+    if (process.stderr.isTTY) process.stderr.write(`\rpage ${i + 1}/${count}${i + 1 === Number(count) ? '\n' : ''}`);
+  };
+}
+
+function reportWritten(s: { pages: number; annotations: number; seconds: number }, where: string): void {
+  process.stdout.write(`wrote ${s.pages} pages, ${s.annotations} boxes ${where} in ${s.seconds.toFixed(1)} s (${((s.seconds / s.pages) * 1000).toFixed(0)} ms/page)\n`);
+}
+
 /** `formglean samples generate`: invented filled forms with exact labels, for tests, demos and detector training. */
 export function registerSamplesCommand(program: Command): void {
   const samples = program.command('samples').description('Synthetic filled forms with labels (COCO boxes and field truth)');
@@ -72,14 +83,40 @@ export function registerSamplesCommand(program: Command): void {
           format: oneOf<PageFormat>('format', flags.format, ['png', 'jpeg', 'tiff']),
           upsideDownRate: rate,
         },
-        (i) => {
-          if (process.stderr.isTTY) process.stderr.write(`\rpage ${i + 1}/${flags.count}`);
+        progress(flags.count),
+      );
+      reportWritten(summary, `to ${flags.out}`);
+    });
+
+  samples
+    .command('fill')
+    .description('Fill a fillable PDF form with invented values: pages, truth/<stem>.json, coco.json and the drafted schema')
+    .argument('<form>', 'fillable PDF (AcroForm)')
+    .requiredOption('--out <dir>', 'output folder')
+    .option('--count <n>', 'number of pages', '10')
+    .option('--seed <n>', 'run seed', '1')
+    .option('--page <n>', 'page of the PDF, from 1', '1')
+    .option('--fill <mode>', 'typed | handwriting | mixed (every other page typed)', 'mixed')
+    .option('--degrade <level>', 'scan simulation: none | light | heavy', 'light')
+    .option('--upside-down <rate>', 'share of pages fed upside down when degrading', '0')
+    .action(async (form: string, flags: { out: string; count: string; seed: string; page: string; fill: string; degrade: string; upsideDown: string }) => {
+      const rate = Number(flags.upsideDown);
+      if (!(rate >= 0 && rate <= 1)) throw configError(undefined, `--upside-down must be a share from 0 to 1; got "${flags.upsideDown}"`);
+      // Loaded on use: the PDF library is large, and every other command starts without it.
+      const { fillPdfSamples } = await import('../synth/pdf-fill/fill-pdf.js');
+      const summary = await fillPdfSamples(
+        {
+          form,
+          page: integer('page', flags.page, 1, 10_000) - 1,
+          count: integer('count', flags.count, 1, 1_000_000),
+          seed: integer('seed', flags.seed, 0, 2 ** 32 - 1),
+          out: flags.out,
+          fill: oneOf('fill', flags.fill, ['typed', 'handwriting', 'mixed'] as const),
+          degrade: oneOf<DegradeLevel>('degrade', flags.degrade, ['none', 'light', 'heavy']),
+          upsideDownRate: rate,
         },
+        progress(flags.count),
       );
-      if (process.stderr.isTTY) process.stderr.write('\n');
-      process.stdout.write(
-        `wrote ${summary.pages} pages, ${summary.annotations} boxes to ${flags.out} in ${summary.seconds.toFixed(1)} s ` +
-          `(${((summary.seconds / summary.pages) * 1000).toFixed(0)} ms/page)\n`,
-      );
+      reportWritten(summary, `and ${summary.schema} to ${flags.out}`);
     });
 }

@@ -49,3 +49,28 @@ export async function renderPdfPages(bytes: Buffer, source: string, limits: Deco
     doc.destroy();
   }
 }
+
+/**
+ * Render one page (0-based) of a PDF at `dpi` to a grayscale raster, widget appearances included: used to draw a
+ * fillable form's blank, and its filled copies, without rendering the other pages.
+ */
+export async function renderPdfPage(bytes: Uint8Array, source: string, pageIndex: number, dpi = PDF_DPI): Promise<GrayImage> {
+  library ??= PDFiumLibrary.init();
+  const lib = await library;
+  let doc;
+  try {
+    doc = await lib.loadDocument(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  } catch {
+    throw documentError(source, 'not a readable PDF (corrupt, truncated or encrypted)');
+  }
+  try {
+    const count = doc.getPageCount();
+    if (pageIndex < 0 || pageIndex >= count) throw documentError(source, `page ${pageIndex + 1} does not exist (the PDF has ${count})`);
+    const page = doc.getPage(pageIndex);
+    const r = await page.render({ scale: dpi / 72, colorSpace: 'Gray', render: 'bitmap' } as Parameters<typeof page.render>[0]);
+    if (r.data.length !== r.width * r.height) throw documentError(source, `page ${pageIndex + 1} did not render as a grayscale image`);
+    return { width: r.width, height: r.height, data: new Uint8Array(r.data) };
+  } finally {
+    doc.destroy();
+  }
+}

@@ -1,5 +1,5 @@
 import type { Box } from '../page/geometry.js';
-import { DETECTOR_CLASSES, type Layout } from './layout-model.js';
+import { DETECTOR_CLASSES, type DetectorClass, type Layout } from './layout-model.js';
 import type { ScanParams } from './scan-params.js';
 import { boxTuple } from './box-tuple.js';
 import { scanBox } from './homography.js';
@@ -43,21 +43,24 @@ export class CocoBuilder {
   private readonly annotations: CocoAnnotation[] = [];
 
   addPage(fileName: string, layout: Layout, scan: ScanParams): number {
+    return this.addAreas(fileName, layout.fields.flatMap((f) => f.slots), scan);
+  }
+
+  /** A page and its entry areas (reference-page boxes with their detector class), mapped through the scan. */
+  addAreas(fileName: string, areas: readonly { class: DetectorClass; box: Box }[], scan: ScanParams): number {
     const imageId = this.images.length + 1;
     this.images.push({ id: imageId, file_name: fileName, width: scan.width, height: scan.height });
-    for (const field of layout.fields) {
-      for (const slot of field.slots) {
-        const b: Box = scanBox(scan.transform, slot.box, scan.width, scan.height);
-        if (b.w < MIN_SIDE || b.h < MIN_SIDE) continue;
-        this.annotations.push({
-          id: this.annotations.length + 1,
-          image_id: imageId,
-          category_id: DETECTOR_CLASSES.indexOf(slot.class) + 1,
-          bbox: boxTuple(b),
-          area: b.w * b.h,
-          iscrowd: 0,
-        });
-      }
+    for (const area of areas) {
+      const b: Box = scanBox(scan.transform, area.box, scan.width, scan.height);
+      if (b.w < MIN_SIDE || b.h < MIN_SIDE) continue;
+      this.annotations.push({
+        id: this.annotations.length + 1,
+        image_id: imageId,
+        category_id: DETECTOR_CLASSES.indexOf(area.class) + 1,
+        bbox: boxTuple(b),
+        area: b.w * b.h,
+        iscrowd: 0,
+      });
     }
     return imageId;
   }

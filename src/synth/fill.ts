@@ -40,11 +40,13 @@ export function drawPen(rng: Rng, mode: FillMode): Pen {
 const SKIP_OPTIONAL = 0.1;
 const SKIP_REQUIRED = 0.02;
 
-function checkedMark(rng: Rng): MarkKind {
+/** A deliberate mark, in the mix people use (common practice): ticks and crosses most, fills and faint marks less. */
+export function checkedMark(rng: Rng): MarkKind {
   return rng.weighted([['tick', 35], ['cross', 25], ['fill', 15], ['scribble', 10], ['light', 15]] as const);
 }
 
-function uncheckedMark(rng: Rng): MarkKind {
+/** An unticked box: mostly empty, sometimes a stray pen touch. */
+export function uncheckedMark(rng: Rng): MarkKind {
   return rng.chance(0.1) ? 'dot' : 'empty';
 }
 
