@@ -61,9 +61,6 @@ export function buildFieldResult(
   });
   const locateReasons = located.parts.flatMap((p) => p.reasons).filter((r) => r !== 'not_found');
   const reasons = [...new Set([...score.reasons, ...locateReasons])];
-  let status = score.status;
-  // A detection far from where the schema puts the field may be another field's: a person should look.
-  if (status === 'accepted' && locateReasons.includes('location_disagrees')) status = 'review';
 
   const pageBox = unionBox(located.parts.flatMap((p) => (p.box ? [p.box] : [])));
   const srcBox = pageBox ? transformBox(toSource, pageBox) : null;
@@ -76,7 +73,7 @@ export function buildFieldResult(
     value: keptValue(interp, raw),
     raw,
     ...(interp?.extra ? { extra: interp.extra } : {}),
-    status,
+    status: score.status,
     confidence: score.confidence,
     reasons,
     box: srcBox ? { page: field.page, x: round1(srcBox.x), y: round1(srcBox.y), w: round1(srcBox.w), h: round1(srcBox.h) } : null,
