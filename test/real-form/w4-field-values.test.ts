@@ -1,15 +1,15 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { w4FilledWith, w4SchemaWith } from './w4-variant.js';
+import { filledBlank, schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
 });
 
-async function extractW4(fieldsYaml: string, entries: Parameters<typeof w4FilledWith>[0], id: string) {
-  const loaded = await w4SchemaWith(fieldsYaml);
-  const png = await w4FilledWith(entries);
+async function extractW4(fieldsYaml: string, entries: Parameters<typeof filledBlank>[0], id: string) {
+  const loaded = await schemaOnBlank(fieldsYaml);
+  const png = await filledBlank(entries);
   const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
   try {
     return (await extractDocument(png, { schema: loaded, detector, documentId: id })).result;

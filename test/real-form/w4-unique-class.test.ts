@@ -3,7 +3,7 @@ import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/a
 import { iou } from '../../src/page/geometry.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { filledRealForm } from '../page/fill-real-form.js';
-import { w4SchemaWith } from './w4-variant.js';
+import { schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
@@ -13,7 +13,7 @@ describe('a field whose detector class appears once in the schema, on the real W
   it('is read where its aligned region is, not at the best detection of its class elsewhere on the page', async () => {
     // One text field and the signature: each the only user of its class. On this page the shipped detector's best
     // text_entry box is the signature date (score 0.88) and its best signature_area box the employer's name cell.
-    const loaded = await w4SchemaWith(`
+    const loaded = await schemaOnBlank(`
   - { name: city_state_zip, type: text, class: text_entry, region: [261, 367, 1057, 65] }
   - { name: employee_signature, type: signature, class: signature_area, region: [279, 1810, 962, 72] }
 `);

@@ -3,17 +3,21 @@ import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
-import { W4_BLANK } from './w4-layout.js';
+import { REPO_ROOT, W4_BLANK } from './w4-layout.js';
 
 /**
- * Small variants of the real W-4 blank for tests of one failure mode each: a schema with a few fields over the
- * blank's real cells (written beside a copy of the blank, so it has its reference image), and the blank with
- * invented entries (SVG text and strokes in blank pixels, 200 dpi) composited on it, as a typist or a pen would.
+ * Small variants of a real blank (the W-4 by default, 1700 x 2200 at 200 dpi) for tests of one failure mode each:
+ * a schema with a few fields over the blank's real cells (written beside a copy of the blank, so it has its
+ * reference image), and the blank with invented entries (SVG text and strokes in blank pixels) composited on it, as
+ * a typist or a pen would.
  */
 
-export async function w4SchemaWith(fieldsYaml: string, name = 'w4-variant'): Promise<LoadedSchema> {
-  const dir = await mkdtemp(path.join(os.tmpdir(), 'fg-w4v-'));
-  await copyFile(W4_BLANK, path.join(dir, 'blank.png'));
+/** Page 1 of DD Form 293 (2023), blank at 200 dpi: a dense form printed in capitals (see the fixture README). */
+export const DD293_BLANK = path.join(REPO_ROOT, 'test/fixtures/real-forms/dod-dd293-2023-page1-blank.png');
+
+export async function schemaOnBlank(fieldsYaml: string, blank = W4_BLANK, name = 'real-variant'): Promise<LoadedSchema> {
+  const dir = await mkdtemp(path.join(os.tmpdir(), 'fg-blank-variant-'));
+  await copyFile(blank, path.join(dir, 'blank.png'));
   const file = path.join(dir, `${name}.yaml`);
   const text = `form: { name: ${name}, version: "1" }\npages: [{ width: 1700, height: 2200, image: blank.png }]\nfields:\n${fieldsYaml}`;
   await writeFile(file, text);
@@ -32,7 +36,7 @@ export interface TextEntry {
 const escapeXml = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 
 /** The blank with typed entries and any extra SVG (pen strokes), as grayscale PNG bytes (1700 x 2200). */
-export async function w4FilledWith(entries: readonly TextEntry[], extraSvg = ''): Promise<Buffer> {
+export async function filledBlank(entries: readonly TextEntry[], extraSvg = '', blank = W4_BLANK): Promise<Buffer> {
   const texts = entries
     .map(
       (e) =>
@@ -40,5 +44,5 @@ export async function w4FilledWith(entries: readonly TextEntry[], extraSvg = '')
     )
     .join('');
   const svg = Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="1700" height="2200">${texts}${extraSvg}</svg>`);
-  return sharp(W4_BLANK).composite([{ input: svg }]).grayscale().png().toBuffer();
+  return sharp(blank).composite([{ input: svg }]).grayscale().png().toBuffer();
 }
