@@ -150,6 +150,7 @@ async function extractForm(
       const outcome = await readLocatedField(lf, type, typeOptions, {
         page: normalized.image,
         ocrPage,
+        reference,
         padding: schema.defaults.padding,
         typeContext,
       });

@@ -2,7 +2,8 @@ import type { FieldType, FieldTypeContext, Interpretation, Reading } from '../fi
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { cropField, type Padding } from '../read/crop.js';
-import { inkCoverage, measureMark } from '../read/marks.js';
+import { measureBox } from '../read/mark-box.js';
+import { inkCoverage } from '../read/marks.js';
 import { withoutPrintedLabel } from '../read/printed-label.js';
 import { readTextField } from '../read/read-text.js';
 import type { LocatedField } from '../locate/locate-fields.js';
@@ -22,6 +23,8 @@ export interface ReadFieldContext {
   ocrPage?: GrayImage;
   padding: Padding;
   typeContext: FieldTypeContext;
+  /** The schema page's blank image, when it names one: marks are then measured as ink added over it. */
+  reference?: GrayImage;
 }
 
 /**
@@ -80,13 +83,14 @@ export async function readLocatedField(
   if (boxes.length === 0) return { reading: null, interpretation: null, details: {} };
 
   if (type.reader === 'mark') {
-    const marks = located.parts.map((part) => {
-      if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false };
-      const m = measureMark(cropField(ctx.page, part.box, padding).image);
-      return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound };
+    const measured = located.parts.map((part) => {
+      if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false, method: 'none' };
+      const blank = ctx.reference && part.region && part.expected ? { reference: ctx.reference, region: part.region, onPage: part.expected } : undefined;
+      const m = measureBox(ctx.page, part.box, padding, blank);
+      return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound, method: m.method };
     });
-    const reading: Reading = { kind: 'marks', marks };
-    return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { marks } };
+    const reading: Reading = { kind: 'marks', marks: measured.map(({ key, fillRatio, boxFound }) => ({ key, fillRatio, boxFound })) };
+    return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { marks: measured } };
   }
 
   const coverage = inkCoverage(cropField(ctx.page, boxes[0].box, padding).image);
