@@ -6,7 +6,8 @@ import { measureBox } from '../read/mark-box.js';
 import { inkCoverage } from '../read/marks.js';
 import { withoutPrintedLabel } from '../read/printed-label.js';
 import { readTextField } from '../read/read-text.js';
-import type { LocatedField } from '../locate/locate-fields.js';
+import type { LocatedField, LocatedPart } from '../locate/locate-fields.js';
+import type { BlankPart } from '../read/blank-crop.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -52,11 +53,13 @@ export async function readLocatedField(
     const box = located.parts[0]?.box;
     if (!box) return { reading: null, interpretation: null, details: {} };
     const hints = { ...(type.ocrDefaults?.(options) ?? {}), ...(field.ocr ?? {}) };
+    const blank = blankPart(ctx, located.parts[0]);
     const read = await readTextField(ctx.ocrPage ?? ctx.page, box, {
       padding,
       mode: hints.mode ?? 'line',
       allowed: hints.allowed,
       comb: field.class === 'comb_field',
+      blank,
       // The page was deskewed as a whole; crops need no skew estimate of their own.
       skew: 0,
       accept: (r) => {
@@ -85,8 +88,7 @@ export async function readLocatedField(
   if (type.reader === 'mark') {
     const measured = located.parts.map((part) => {
       if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false, method: 'none' };
-      const blank = ctx.reference && part.region && part.expected ? { reference: ctx.reference, region: part.region, onPage: part.expected } : undefined;
-      const m = measureBox(ctx.page, part.box, padding, blank);
+      const m = measureBox(ctx.page, part.box, padding, blankPart(ctx, part));
       return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound, method: m.method };
     });
     const reading: Reading = { kind: 'marks', marks: measured.map(({ key, fillRatio, boxFound }) => ({ key, fillRatio, boxFound })) };
@@ -96,6 +98,11 @@ export async function readLocatedField(
   const coverage = inkCoverage(cropField(ctx.page, boxes[0].box, padding).image);
   const reading: Reading = { kind: 'ink', coverage: round3(coverage) };
   return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { coverage: reading.coverage } };
+}
+
+/** The blank under a part, where the schema names a blank and the part has an aligned region. */
+function blankPart(ctx: ReadFieldContext, part: LocatedPart): BlankPart | undefined {
+  return ctx.reference && part.region && part.expected ? { reference: ctx.reference, region: part.region, onPage: part.expected } : undefined;
 }
 
 function round3(v: number): number {

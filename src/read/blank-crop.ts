@@ -1,5 +1,13 @@
+import { formMask } from '../page/dropout.js';
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
+
+/** The blank under a part: the reference image, the part's schema region on it, and that region aligned on the page. */
+export interface BlankPart {
+  reference: GrayImage;
+  region: Box;
+  onPage: Box;
+}
 
 /**
  * The blank form under a page crop: the reference region that the located box stands for, resampled (bilinear) onto
@@ -27,4 +35,16 @@ export function blankUnderCrop(reference: GrayImage, region: Box, box: Box, crop
     }
   }
   return { width: crop.w, height: crop.h, data: out };
+}
+
+/**
+ * Where the blank has print under a page crop (0) and where it is paper (255), the print grown by `tolerance` pixels
+ * for misregistration; blank pixels at or below 200 count as print (as dropout).
+ */
+export function printedUnderCrop(blank: BlankPart, crop: Box, tolerance: number): GrayImage {
+  const under = blankUnderCrop(blank.reference, blank.region, blank.onPage, crop);
+  const mask = formMask(under, tolerance, 200);
+  const data = new Uint8Array(mask.length);
+  for (let i = 0; i < mask.length; i++) data[i] = mask[i] ? 0 : 255;
+  return { width: under.width, height: under.height, data };
 }

@@ -1,6 +1,6 @@
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
-import { blankUnderCrop } from './blank-crop.js';
+import { blankUnderCrop, type BlankPart } from './blank-crop.js';
 import { cropField, type Padding } from './crop.js';
 import { measureAddedInk, measureMark } from './marks.js';
 
@@ -9,13 +9,6 @@ export interface BoxMark {
   boxFound: boolean;
   /** How it was measured: ink added over the blank, or the printed outline found in the crop. */
   method: 'added_ink' | 'outline';
-}
-
-/** The blank under a part: the reference image, the part's schema region on it, and that region aligned on the page. */
-export interface BlankPart {
-  reference: GrayImage;
-  region: Box;
-  onPage: Box;
 }
 
 /**

@@ -2,7 +2,10 @@ import { copyFile, mkdtemp, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
+import { grayFromImage, type GrayImage } from '../../src/page/raster.js';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
+import { encodePage } from '../../src/synth/encode-page.js';
+import { rasterizeSvg } from '../../src/synth/rasterize.js';
 import { REPO_ROOT, W4_BLANK } from './w4-layout.js';
 
 /**
@@ -45,4 +48,20 @@ export async function filledBlank(entries: readonly TextEntry[], extraSvg = '', 
     .join('');
   const svg = Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="1700" height="2200">${texts}${extraSvg}</svg>`);
   return sharp(blank).composite([{ input: svg }]).grayscale().png().toBuffer();
+}
+
+/**
+ * The blank with pen writing in the bundled handwriting-style fonts: the SVG is rendered by the synthetic renderer
+ * (which knows those fonts) on white paper and laid on the blank, the darker pixel winning (ink does not lighten
+ * print). PNG bytes.
+ */
+export async function penOnBlank(svgBody: string, blank = W4_BLANK): Promise<Buffer> {
+  const print = await grayFromImage(blank);
+  const ink = await rasterizeSvg(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${print.width}" height="${print.height}"><rect width="100%" height="100%" fill="#fff"/>${svgBody}</svg>`,
+  );
+  const data = new Uint8Array(print.data.length);
+  for (let i = 0; i < data.length; i++) data[i] = Math.min(print.data[i], ink.data[i]);
+  const page: GrayImage = { width: print.width, height: print.height, data };
+  return encodePage(page, 'png', 200);
 }
