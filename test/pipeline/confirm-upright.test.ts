@@ -1,7 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
-import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { DD293_BLANK, filledBlank, schemaOnBlank } from '../real-form/blank-variant.js';
+import { closeSharedOcrEngine } from '../../src/api.js';
+import { DD293_BLANK, extractWithShippedModel, filledBlank, schemaOnBlank } from '../real-form/blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
@@ -26,15 +25,10 @@ describe('an upright page of a form printed in capitals', () => {
       '',
       DD293_BLANK,
     );
-    const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-    try {
-      const { result } = await extractDocument(png, { schema: loaded, detector, documentId: 'dd293-upright' });
-      expect(result.pages[0].rotation).toBe(0);
-      expect(result.pages[0].alignment!.score).toBeGreaterThan(0.8);
-      expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Quillfeather');
-      expect(result.fields.find((f) => f.name === 'street')!.value).toBe('418 Alder Bend Road');
-    } finally {
-      await detector.close();
-    }
+    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-upright');
+    expect(result.pages[0].rotation).toBe(0);
+    expect(result.pages[0].alignment!.score).toBeGreaterThan(0.8);
+    expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Quillfeather');
+    expect(result.fields.find((f) => f.name === 'street')!.value).toBe('418 Alder Bend Road');
   }, 180_000);
 });

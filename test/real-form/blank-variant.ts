@@ -2,7 +2,10 @@ import { copyFile, mkdtemp, writeFile } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
+import { extractDocument, loadDetector } from '../../src/api.js';
+import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { grayFromImage, type GrayImage } from '../../src/page/raster.js';
+import type { DocumentResult } from '../../src/result/document.js';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
 import { encodePage } from '../../src/synth/encode-page.js';
 import { rasterizeSvg } from '../../src/synth/rasterize.js';
@@ -64,4 +67,16 @@ export async function penOnBlank(svgBody: string, blank = W4_BLANK): Promise<Buf
   for (let i = 0; i < data.length; i++) data[i] = Math.min(print.data[i], ink.data[i]);
   const page: GrayImage = { width: print.width, height: print.height, data };
   return encodePage(page, 'png', 200);
+}
+
+/** Extract pages (PNG bytes) with the shipped detector, one document each; the records in order. */
+export async function extractWithShippedModel(loaded: LoadedSchema, pages: readonly Buffer[], id: string): Promise<DocumentResult[]> {
+  const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
+  try {
+    const out: DocumentResult[] = [];
+    for (const [i, png] of pages.entries()) out.push((await extractDocument(png, { schema: loaded, detector, documentId: `${id}-${i}` })).result);
+    return out;
+  } finally {
+    await detector.close();
+  }
 }

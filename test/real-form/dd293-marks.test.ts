@@ -1,8 +1,7 @@
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
-import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { DD293_BLANK, filledBlank, schemaOnBlank } from './blank-variant.js';
+import { closeSharedOcrEngine } from '../../src/api.js';
+import { DD293_BLANK, extractWithShippedModel, filledBlank, schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
@@ -37,25 +36,19 @@ async function scanned(extraSvg: string): Promise<Buffer> {
 describe('marks on the real DD Form 293, measured as ink added over the blank', () => {
   it('reads a one-of group whose boxes sit between ruled lines, with a tick that overflows its box', async () => {
     const loaded = await schemaOnBlank(SCHEMA, DD293_BLANK);
-    const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-    try {
-      const { result } = await extractDocument(await scanned(HEAVY_TICK), { schema: loaded, detector, documentId: 'dd293-marks' });
-      const component = result.fields.find((f) => f.name === 'component')!;
-      expect(component.value).toBe('reserve');
-      expect(component.status).toBe('accepted');
-      const marks = (component.details as { marks: { key: string; fillRatio: number; method: string }[] }).marks;
-      expect(marks.every((m) => m.method === 'added_ink')).toBe(true);
-      // The empty boxes measure what a writer added to them: nothing (bench/real-form-marks.ts: empty boxes on the
-      // development forms <= 0.045 at light scans).
-      for (const m of marks.filter((x) => x.key !== 'reserve')) expect(m.fillRatio).toBeLessThan(0.05);
-      expect(marks.find((x) => x.key === 'reserve')!.fillRatio).toBeGreaterThan(0.15);
+    const [ticked, blank] = await extractWithShippedModel(loaded, [await scanned(HEAVY_TICK), await scanned('')], 'dd293-marks');
+    const component = ticked.fields.find((f) => f.name === 'component')!;
+    expect(component.value).toBe('reserve');
+    expect(component.status).toBe('accepted');
+    const marks = (component.details as { marks: { key: string; fillRatio: number; method: string }[] }).marks;
+    expect(marks.every((m) => m.method === 'added_ink')).toBe(true);
+    // The empty boxes measure what a writer added to them: nothing (bench/real-form-marks.ts: empty boxes on the
+    // development forms <= 0.06).
+    for (const m of marks.filter((x) => x.key !== 'reserve')) expect(m.fillRatio).toBeLessThan(0.05);
+    expect(marks.find((x) => x.key === 'reserve')!.fillRatio).toBeGreaterThan(0.15);
 
-      const blank = await extractDocument(await scanned(''), { schema: loaded, detector, documentId: 'dd293-blank' });
-      const none = blank.result.fields.find((f) => f.name === 'component')!;
-      expect(none.value).toBeNull();
-      expect(none.reasons).toContain('no_choice_marked');
-    } finally {
-      await detector.close();
-    }
+    const none = blank.fields.find((f) => f.name === 'component')!;
+    expect(none.value).toBeNull();
+    expect(none.reasons).toContain('no_choice_marked');
   }, 180_000);
 });

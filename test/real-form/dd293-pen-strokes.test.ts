@@ -1,7 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
-import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { DD293_BLANK, penOnBlank, schemaOnBlank } from './blank-variant.js';
+import { closeSharedOcrEngine } from '../../src/api.js';
+import { DD293_BLANK, extractWithShippedModel, penOnBlank, schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
@@ -24,13 +23,8 @@ describe('handwriting in the tight ruled cells of DD Form 293', () => {
         '<text x="380" y="620" font-family="DejaVu Sans" font-size="46" fill="#15153a">Stillwater</text>',
       DD293_BLANK,
     );
-    const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-    try {
-      const { result } = await extractDocument(png, { schema: loaded, detector, documentId: 'dd293-pen' });
-      expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Stillwater');
-      expect(result.fields.find((f) => f.name === 'first_name')!.value).toBe('Stillwater');
-    } finally {
-      await detector.close();
-    }
+    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-pen');
+    expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Stillwater');
+    expect(result.fields.find((f) => f.name === 'first_name')!.value).toBe('Stillwater');
   }, 180_000);
 });

@@ -1,21 +1,14 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
-import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { filledBlank, schemaOnBlank } from './blank-variant.js';
+import { closeSharedOcrEngine } from '../../src/api.js';
+import { extractWithShippedModel, filledBlank, schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
 });
 
 async function extractW4(fieldsYaml: string, entries: Parameters<typeof filledBlank>[0], id: string) {
-  const loaded = await schemaOnBlank(fieldsYaml);
-  const png = await filledBlank(entries);
-  const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-  try {
-    return (await extractDocument(png, { schema: loaded, detector, documentId: id })).result;
-  } finally {
-    await detector.close();
-  }
+  const [result] = await extractWithShippedModel(await schemaOnBlank(fieldsYaml), [await filledBlank(entries)], id);
+  return result;
 }
 
 describe('identifier shape on the real W-4 layout', () => {

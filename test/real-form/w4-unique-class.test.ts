@@ -1,9 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
+import { closeSharedOcrEngine } from '../../src/api.js';
 import { iou } from '../../src/page/geometry.js';
-import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { filledRealForm } from '../page/fill-real-form.js';
-import { schemaOnBlank } from './blank-variant.js';
+import { extractWithShippedModel, schemaOnBlank } from './blank-variant.js';
 
 afterAll(async () => {
   await closeSharedOcrEngine();
@@ -17,18 +16,13 @@ describe('a field whose detector class appears once in the schema, on the real W
   - { name: city_state_zip, type: text, class: text_entry, region: [261, 367, 1057, 65] }
   - { name: employee_signature, type: signature, class: signature_area, region: [279, 1810, 962, 72] }
 `);
-    const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-    try {
-      const { result } = await extractDocument(await filledRealForm(), { schema: loaded, detector, documentId: 'w4-unique' });
-      const city = result.fields.find((f) => f.name === 'city_state_zip')!;
-      // The page is the blank itself (no scan), so source pixels are reference pixels.
-      expect(iou(city.box!, { x: 261, y: 367, w: 1057, h: 65 })).toBeGreaterThan(0.5);
-      // Read from the right cell (OCR may take the small comma for a period: measured "Fernhollow. ME 04101").
-      expect(city.value).toMatch(/^Fernhollow[.,] ME 04101$/);
-      const signature = result.fields.find((f) => f.name === 'employee_signature')!;
-      expect(iou(signature.box!, { x: 279, y: 1810, w: 962, h: 72 })).toBeGreaterThan(0.5);
-    } finally {
-      await detector.close();
-    }
+    const [result] = await extractWithShippedModel(loaded, [await filledRealForm()], 'w4-unique');
+    const city = result.fields.find((f) => f.name === 'city_state_zip')!;
+    // The page is the blank itself (no scan), so source pixels are reference pixels.
+    expect(iou(city.box!, { x: 261, y: 367, w: 1057, h: 65 })).toBeGreaterThan(0.5);
+    // Read from the right cell (OCR may take the small comma for a period: measured "Fernhollow. ME 04101").
+    expect(city.value).toMatch(/^Fernhollow[.,] ME 04101$/);
+    const signature = result.fields.find((f) => f.name === 'employee_signature')!;
+    expect(iou(signature.box!, { x: 279, y: 1810, w: 962, h: 72 })).toBeGreaterThan(0.5);
   }, 120_000);
 });
