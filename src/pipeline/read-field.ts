@@ -2,6 +2,7 @@ import type { FieldType, FieldTypeContext, Interpretation, Reading } from '../fi
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { cropField, type Padding } from '../read/crop.js';
+import { writingPastEdge } from '../read/edge-overflow.js';
 import { measureBox } from '../read/mark-box.js';
 import { inkCoverage } from '../read/marks.js';
 import { withoutPrintedLabel } from '../read/printed-label.js';
@@ -71,6 +72,10 @@ export async function readLocatedField(
     let interpretation = type.interpret(reading, options, ctx.typeContext);
     const details: Record<string, unknown> = { attempts: read.attempts };
     if (reading !== read.reading) details.droppedLabel = true;
+    if (blank && interpretation.outcome !== 'empty' && writingPastEdge(ctx.page, blank)) {
+      // The value may be cut off at the region's edge: never accepted as read.
+      interpretation = { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, 'writing_past_edge'] };
+    }
     if (interpretation.outcome === 'empty') {
       // Nothing read is not the same as nothing written: look for pen strokes on the scanned page.
       const ink = inkCoverage(cropField(ctx.page, box, padding).image);

@@ -63,3 +63,28 @@ describe('values that fail their checks on the real W-4 layout', () => {
     expect(evening.raw).toMatch(/555-01/);
   }, 120_000);
 });
+
+describe('writing that runs past the region edge on the real W-4', () => {
+  it('sends a value cut off at the edge to review, and leaves a value that ends inside alone', async () => {
+    // The city cell (region from w4-page1.yaml) ends at x = 1318; the line typed into it runs on into the printed
+    // note beside it. The address line ends well inside its cell. Invented values.
+    const result = await extractW4(
+      `
+  - { name: address, type: text, class: text_entry, region: [261, 301, 1057, 64] }
+  - { name: city_state_zip, type: text, class: text_entry, region: [261, 367, 1057, 65] }
+`,
+      [
+        { x: 285, y: 352, text: '418 Alder Bend Road', size: 36 },
+        { x: 285, y: 422, text: 'Cedar Bend Junction Heights Township, ME 04101-2270', size: 42 },
+      ],
+      'w4-edge',
+    );
+    const city = result.fields.find((f) => f.name === 'city_state_zip')!;
+    expect(city.status).toBe('review');
+    expect(city.reasons).toContain('writing_past_edge');
+    expect(city.value).not.toBeNull();
+    const address = result.fields.find((f) => f.name === 'address')!;
+    expect(address.reasons).not.toContain('writing_past_edge');
+    expect(address.value).toBe('418 Alder Bend Road');
+  }, 120_000);
+});
