@@ -6,7 +6,7 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import { configError } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
-import { checkSchemaAgainstClasses } from '../schema/consistency.js';
+import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
 
 interface ExtractCliOptions {
@@ -53,6 +53,10 @@ export function registerExtractCommand(program: Command): void {
       const outStat = await stat(opts.out).catch(() => null);
       if (outStat && !outStat.isDirectory()) throw configError(opts.out, 'the --out path exists and is not a folder');
       const schemas = await loadSchemas(opts.schema);
+      for (const s of schemas) {
+        const missing = await checkReferenceImages(s);
+        if (missing.length > 0) throw configError(s.path, missing[0]);
+      }
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
       for (const s of schemas) {
         const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);

@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
-import { checkSchemaAgainstClasses } from '../schema/consistency.js';
+import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { formSchemaJsonSchema } from '../schema/json-schema.js';
 import { loadSchema } from '../schema/load.js';
 
@@ -13,11 +13,13 @@ export function registerSchemaCommand(program: Command): Command {
 
   schema
     .command('check')
-    .description('Validate a schema file, and its detector classes against a model')
+    .description('Validate a schema file and its blank images, and its detector classes against a model')
     .argument('<file>', 'schema file (YAML or JSON)')
     .option('--model <model>', 'ONNX detector whose classes the schema must use')
     .action(async (file: string, opts: { model?: string }) => {
       const loaded = await loadSchema(file);
+      const missing = await checkReferenceImages(loaded);
+      if (missing.length > 0) throw configError(file, `${missing[0]}${missing.length > 1 ? ` (+${missing.length - 1} more)` : ''}`);
       if (opts.model) {
         const detector = await loadDetector(opts.model);
         const problems = checkSchemaAgainstClasses(loaded.schema, detector.classNames);

@@ -6,7 +6,7 @@ export function emptyInterpretation(reasons: ReasonCode[] = []): Interpretation 
   return { value: null, outcome: 'empty', confidence: 1, reasons };
 }
 
-/** Text was there but fails the type's checks; the value stays null so nothing unchecked reaches a record. */
+/** Text was there but fails the type's checks; no normalized value (the record keeps the text read, status invalid). */
 export function invalidInterpretation(reasons: ReasonCode[], confidence = 1): Interpretation {
   return { value: null, outcome: 'invalid', confidence, reasons };
 }

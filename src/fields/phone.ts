@@ -34,11 +34,18 @@ function interpretText(text: string, o: PhoneOptions, repair: boolean): Interpre
   const r = repair ? repairPhoneText(text) : { text, repairs: 0 };
   // The "max" metadata checks each region's number patterns, not only lengths (libphonenumber-js README).
   const parsed = parsePhoneNumberFromString(r.text, { defaultCountry: o.defaultRegion as CountryCode });
-  if (!parsed || !parsed.isValid()) return invalidInterpretation(['invalid_phone']);
-  return validInterpretation(parsed.number, repairPenalty(r.repairs), r.repairs ? ['repaired_digits'] : [], {
-    national: parsed.formatNational(),
-    country: parsed.country ?? '',
-  });
+  if (!parsed || !parsed.isPossible()) return invalidInterpretation(['invalid_phone']);
+  const extra = { national: parsed.formatNational(), country: parsed.country ?? '' };
+  // Possible (right length) but in no range the numbering plan assigns (an area code not in service, say): a misread
+  // digit, a number assigned since the metadata was published, or a made-up one. libphonenumber cannot tell these
+  // apart (its README: isPossible checks length, isValid the assigned ranges), so a person decides; the number read
+  // stays in the record.
+  if (!parsed.isValid()) {
+    // A reviewer who types such a number has looked at it: kept as typed, the reason stays on record.
+    if (!repair) return validInterpretation(parsed.number, 1, ['phone_not_assigned'], extra);
+    return { value: parsed.number, outcome: 'ambiguous', confidence: repairPenalty(r.repairs), reasons: ['phone_not_assigned'], extra };
+  }
+  return validInterpretation(parsed.number, repairPenalty(r.repairs), r.repairs ? ['repaired_digits'] : [], extra);
 }
 
 export const phoneField: FieldType<PhoneOptions> = {

@@ -51,11 +51,6 @@ export const REASONS = {
     meaning: 'The detector did not find this entry area; it was read where the schema puts it after aligning the page.',
     check: 'That the crop shows the right entry, not its neighbour or the printed label.',
   },
-  location_disagrees: {
-    effect: 'confidence',
-    meaning: 'The detector found an entry area away from where the schema puts it.',
-    check: 'That the crop shows this field and not the one beside it.',
-  },
   low_detection_score: {
     effect: 'confidence',
     meaning: 'The detector was unsure this is an entry area.',
@@ -86,6 +81,11 @@ export const REASONS = {
     effect: 'review',
     meaning: 'The recogniser read nothing, but there are pen strokes in the area.',
     check: 'Type what is written, or "really blank" if the strokes are not an entry.',
+  },
+  writing_past_edge: {
+    effect: 'review',
+    meaning: 'Pen or type runs on past the right edge of the text area (ink added over the blank form on both sides of the edge): the value read may be cut off.',
+    check: 'The whole entry on the context crop; type it in full.',
   },
   below_review_threshold: {
     effect: 'review',
@@ -127,6 +127,11 @@ export const REASONS = {
     effect: 'invalid',
     meaning: 'The text is not a valid phone number for the field\'s region.',
     check: 'The digits and the area code.',
+  },
+  phone_not_assigned: {
+    effect: 'review',
+    meaning: 'The phone number has a possible length for its region but lies in no assigned number range; it is kept as read.',
+    check: 'The digits against the crop; confirm the number if it is written so.',
   },
   invalid_email: {
     effect: 'invalid',
@@ -172,6 +177,11 @@ export const REASONS = {
     effect: 'invalid',
     meaning: 'The text does not have the shape the schema asks for.',
     check: 'Each character against the crop.',
+  },
+  shape_mismatch: {
+    effect: 'invalid',
+    meaning: 'The identifier read does not have as many digits as the field\'s shape (# for each digit) asks for.',
+    check: 'Each digit against the crop; a dropped or doubled digit is the usual cause.',
   },
   not_a_choice: {
     effect: 'invalid',

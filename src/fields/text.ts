@@ -4,6 +4,7 @@ import type { ReasonCode } from './reasons.js';
 import { emptyInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
 import { repairPenalty, repairWordLetters } from './digit-repair.js';
+import { applyShape, SHAPE_DIGIT, shapeCharacters } from './id-shape.js';
 
 const options = z
   .object({
@@ -11,6 +12,14 @@ const options = z
     minLength: z.number().int().min(0).optional(),
     maxLength: z.number().int().min(1).optional(),
     case: z.enum(['as_read', 'upper', 'lower', 'title']).default('as_read').describe('Case of the stored value (default as_read)'),
+    shape: z
+      .string()
+      .refine((s) => s.includes(SHAPE_DIGIT), { message: 'a shape with at least one "#" (a digit), such as "###-##-####"' })
+      .optional()
+      .describe(
+        'Output shape of an identifier: "#" is one digit, other characters are written as they stand (e.g. "###-##-####"). ' +
+          'The digits read are laid into it whatever separators were written; a read with another number of digits is shape_mismatch.',
+      ),
   })
   .strict();
 
@@ -34,6 +43,13 @@ function matches(pattern: string, value: string): boolean {
 
 function check(read: string, o: TextOptions): Interpretation {
   if (read === '') return emptyInterpretation();
+  if (o.shape !== undefined) {
+    const shaped = applyShape(read, o.shape);
+    if (shaped.value === null) return { value: read, outcome: 'invalid', confidence: 1, reasons: ['shape_mismatch'] };
+    const r = check(shaped.value, { ...o, shape: undefined });
+    if (shaped.repairs === 0) return r;
+    return { ...r, confidence: r.confidence * repairPenalty(shaped.repairs), reasons: [...r.reasons, 'repaired_digits'] };
+  }
   const compact = read.replace(/\s+/g, '');
   const value = o.pattern !== undefined && !matches(o.pattern, read) && matches(o.pattern, compact) ? compact : read;
   const reasons: ReasonCode[] = [];
@@ -49,11 +65,13 @@ export const textField: FieldType<TextOptions> = {
   description: 'Free text such as a name or an address line.',
   options,
   reader: 'ocr',
-  ocrDefaults: () => ({ mode: 'line' }),
+  ocrDefaults: (o) => (o.shape === undefined ? { mode: 'line' } : { mode: 'line', allowed: shapeCharacters(o.shape) }),
   interpret(reading, o) {
     const read = ocrText(reading, 'text');
-    // A pattern describes a code, where digits among letters are meant; free text gets its stray digits repaired.
-    const repaired = o.pattern === undefined ? repairWordLetters(read) : { text: read, repairs: 0 };
+    // A pattern or shape describes a code, where digits among letters are meant; free text gets its stray digits
+    // repaired.
+    const code = o.pattern !== undefined || o.shape !== undefined;
+    const repaired = code ? { text: read, repairs: 0 } : repairWordLetters(read);
     const r = check(applyCase(repaired.text, o.case), o);
     if (repaired.repairs === 0 || r.outcome === 'empty') return r;
     return { ...r, confidence: r.confidence * repairPenalty(repaired.repairs), reasons: [...r.reasons, 'repaired_letters'] };

@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
 import type { Affine, Box } from '../page/geometry.js';
-import { iou, transformBox } from '../page/geometry.js';
+import { transformBox } from '../page/geometry.js';
 import type { FieldSpec } from '../schema/definition.js';
 import type { ReasonCode } from '../fields/reasons.js';
 import type { ExpectedPart } from './expected-boxes.js';
@@ -29,8 +29,6 @@ export interface LocateOptions {
   /** Lowest match score (IoU-like) for a detection to stand for a region; common practice for "same object" is 0.5,
    *  we accept less because schema regions are drawn by hand. */
   minMatch: number;
-  /** A unique-class detection whose IoU with its aligned region is below this is reported as `location_disagrees`. */
-  disagreeBelow: number;
   /**
    * Read a matched part at its aligned schema region rather than at the detection's box. Right when the page was
    * registered to the blank reference image: the registration uses every pixel and lands regions within a pixel or
@@ -41,12 +39,15 @@ export interface LocateOptions {
   preferRegion: boolean;
 }
 
-export const DEFAULT_LOCATE: LocateOptions = { minMatch: 0.3, disagreeBelow: 0.1, preferRegion: false };
+export const DEFAULT_LOCATE: LocateOptions = { minMatch: 0.3, preferRegion: false };
 
 /**
- * Detections → schema fields. A class that one part alone uses takes the best detection of that class; parts of shared
- * classes are matched to detections by region (after the reference→page transform); a part with a region but no
- * matching detection falls back to its region; anything else is not found.
+ * Detections → schema fields. Every part with a schema region is matched, one to one, to a detection of its class
+ * that overlaps its region after the reference→page transform, whether or not other fields share the class: a
+ * detection elsewhere on the page is another box (on real layouts, the best comb of a page that has several combs
+ * printed, only one of them a field, was read for a date of birth on 29 pages of 30). A part with a region but no
+ * overlapping detection falls back to its region. A part without a region takes the best detection of its class
+ * when no other part uses that class; anything else is not found.
  */
 export function locateFields(
   fields: readonly FieldSpec[],
@@ -59,25 +60,16 @@ export function locateFields(
   for (const p of parts) perClass.set(p.className, (perClass.get(p.className) ?? 0) + 1);
   const onPage = parts.map((p) => (p.region ? transformBox(refToPage, p.region) : null));
 
-  const shared = parts.map((p) => (perClass.get(p.className) ?? 0) > 1);
-  const sharedIdx = parts.map((_, i) => i).filter((i) => shared[i]);
-  const matches = greedyMatch(
-    sharedIdx.map((i) => parts[i]),
-    sharedIdx.map((i) => onPage[i]),
-    detections,
-    options.minMatch,
-  );
-  const detectionFor = new Map<number, number>();
-  for (const [local, d] of matches) detectionFor.set(sharedIdx[local], d);
+  const matches = greedyMatch(parts, onPage, detections, options.minMatch);
 
   const located: LocatedPart[] = parts.map((part, i) => {
     const expected = onPage[i];
-    if (!shared[i]) return locateUnique(part, expected, detections, options);
-    const d = detectionFor.get(i);
+    const d = matches.get(i);
     if (d !== undefined) {
       const box = options.preferRegion && expected ? expected : detections[d].box;
       return { key: part.key, box, source: 'detection', detectionScore: detections[d].score, expected, region: part.region, reasons: [] };
     }
+    if (!expected && perClass.get(part.className) === 1) return bestOfClass(part, detections);
     return fallback(part, expected);
   });
 
@@ -90,18 +82,12 @@ export function locateFields(
   return fields.map((field) => ({ field, parts: byField.get(field) ?? [] }));
 }
 
-function locateUnique(
-  part: ExpectedPart,
-  expected: Box | null,
-  detections: readonly Detection[],
-  options: LocateOptions,
-): LocatedPart {
+/** A part the schema gives no region: the best detection of its class, the only part that uses it. */
+function bestOfClass(part: ExpectedPart, detections: readonly Detection[]): LocatedPart {
   let best: Detection | null = null;
   for (const d of detections) if (d.className === part.className && (!best || d.score > best.score)) best = d;
-  if (!best) return fallback(part, expected);
-  const reasons: ReasonCode[] = [];
-  if (expected && iou(expected, best.box) < options.disagreeBelow) reasons.push('location_disagrees');
-  return { key: part.key, box: best.box, source: 'detection', detectionScore: best.score, expected, region: part.region, reasons };
+  if (!best) return fallback(part, null);
+  return { key: part.key, box: best.box, source: 'detection', detectionScore: best.score, expected: null, region: null, reasons: [] };
 }
 
 function fallback(part: ExpectedPart, expected: Box | null): LocatedPart {

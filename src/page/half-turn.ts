@@ -16,7 +16,7 @@ export interface HalfTurnCheck {
   /** The page, turned half round when that registers better. */
   page: NormalizedPage;
   flipped: boolean;
-  /** Registration score as the page was, and turned half round. */
+  /** Registration score as the page was, and turned half round (NaN when the page registered well as it was). */
   score: number;
   turnedScore: number;
 }
@@ -26,12 +26,19 @@ export interface HalfTurnOptions {
   margin?: number;
   /** Registration levels (coarse suffices; default [150, 300]). */
   levels?: number[];
+  /**
+   * A page that registers at least this well as it is stands the right way up, and the turned registration is not
+   * computed (default 0.5: midway between the measured upright 0.8..0.97 and upside-down under 0.2). Saves one
+   * registration on nearly every page.
+   */
+  uprightAbove?: number;
 }
 
 /** Turn a normalized page half round if it then registers clearly better with the reference. Pure. */
 export function confirmHalfTurn(n: NormalizedPage, reference: GrayImage, options: HalfTurnOptions = {}): HalfTurnCheck {
   const levels = options.levels ?? [150, 300];
   const score = alignByImage(n.image, reference, { levels }).score;
+  if (score >= (options.uprightAbove ?? 0.5)) return { page: n, flipped: false, score, turnedScore: Number.NaN };
   const turned = rotateQuarter(n.image, 180);
   const turnedScore = alignByImage(turned.image, reference, { levels }).score;
   if (turnedScore <= score + (options.margin ?? 0.1)) return { page: n, flipped: false, score, turnedScore };

@@ -18,6 +18,7 @@ import type { LoadedSchema } from '../schema/load.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
+import { confirmUpright } from './confirm-upright.js';
 import { buildFieldResult } from './field-result.js';
 import { readLocatedField, type FieldReadOutcome } from './read-field.js';
 import { referencePageImage } from './reference-images.js';
@@ -79,7 +80,12 @@ export async function extractFile(input: string | Buffer, options: ExtractOption
   const forms: ExtractedDocument[] = [];
   for (let first = 0; first < prepared.length; ) {
     const started = performance.now();
-    const choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
+    let choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
+    if (options.orientation ?? true) {
+      const form = prepared.slice(first, first + choice.schema.schema.pages.length);
+      const turned = await confirmUpright(form, choice.schema, options.detector);
+      if (turned.includes(0)) choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
+    }
     const count = Math.min(choice.schema.schema.pages.length, prepared.length - first);
     const formPages = prepared.slice(first, first + count);
     const stacked = first > 0 || first + count < prepared.length;
@@ -144,6 +150,7 @@ async function extractForm(
       const outcome = await readLocatedField(lf, type, typeOptions, {
         page: normalized.image,
         ocrPage,
+        reference,
         padding: schema.defaults.padding,
         typeContext,
       });

@@ -27,6 +27,18 @@ function overallSource(located: LocatedField): { source: FieldResult['source']; 
   return { source: 'region', detectionScore: null };
 }
 
+/**
+ * A field that fails its type's checks keeps what was read: the type's own value where it has one, else the OCR text
+ * on one line. The status (`invalid`) says it is unchecked; a reviewer then sees the reading next to the reason
+ * instead of an empty cell, and a correction starts from it.
+ */
+function keptValue(interp: FieldReadOutcome['interpretation'], raw: string | null): FieldResult['value'] {
+  if (!interp) return null;
+  if (interp.value !== null || interp.outcome !== 'invalid' || raw === null) return interp.value;
+  const text = raw.replace(/\s+/g, ' ').trim();
+  return text === '' ? null : text;
+}
+
 /** Score a read field and shape it as the result contract says, with its box in source pixels. */
 export function buildFieldResult(
   located: LocatedField,
@@ -49,21 +61,19 @@ export function buildFieldResult(
   });
   const locateReasons = located.parts.flatMap((p) => p.reasons);
   const reasons = [...new Set([...score.reasons, ...locateReasons])];
-  let status = score.status;
-  // A detection far from where the schema puts the field may be another field's: a person should look.
-  if (status === 'accepted' && locateReasons.includes('location_disagrees')) status = 'review';
 
   const pageBox = unionBox(located.parts.flatMap((p) => (p.box ? [p.box] : [])));
   const srcBox = pageBox ? transformBox(toSource, pageBox) : null;
   const interp = outcome.interpretation;
+  const raw = outcome.reading?.kind === 'text' ? outcome.reading.text : null;
   return {
     name: field.name,
     type: field.type,
     page: field.page,
-    value: interp?.value ?? null,
-    raw: outcome.reading?.kind === 'text' ? outcome.reading.text : null,
+    value: keptValue(interp, raw),
+    raw,
     ...(interp?.extra ? { extra: interp.extra } : {}),
-    status,
+    status: score.status,
     confidence: score.confidence,
     reasons,
     box: srcBox ? { page: field.page, x: round1(srcBox.x), y: round1(srcBox.y), w: round1(srcBox.w), h: round1(srcBox.h) } : null,

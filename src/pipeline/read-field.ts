@@ -2,10 +2,13 @@ import type { FieldType, FieldTypeContext, Interpretation, Reading } from '../fi
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { cropField, type Padding } from '../read/crop.js';
-import { inkCoverage, measureMark } from '../read/marks.js';
+import { writingPastEdge } from '../read/edge-overflow.js';
+import { measureBox } from '../read/mark-box.js';
+import { inkCoverage } from '../read/marks.js';
 import { withoutPrintedLabel } from '../read/printed-label.js';
 import { readTextField } from '../read/read-text.js';
-import type { LocatedField } from '../locate/locate-fields.js';
+import type { LocatedField, LocatedPart } from '../locate/locate-fields.js';
+import type { BlankPart } from '../read/blank-crop.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -22,6 +25,8 @@ export interface ReadFieldContext {
   ocrPage?: GrayImage;
   padding: Padding;
   typeContext: FieldTypeContext;
+  /** The schema page's blank image, when it names one: marks are then measured as ink added over it. */
+  reference?: GrayImage;
 }
 
 /**
@@ -49,11 +54,13 @@ export async function readLocatedField(
     const box = located.parts[0]?.box;
     if (!box) return { reading: null, interpretation: null, details: {} };
     const hints = { ...(type.ocrDefaults?.(options) ?? {}), ...(field.ocr ?? {}) };
+    const blank = blankPart(ctx, located.parts[0]);
     const read = await readTextField(ctx.ocrPage ?? ctx.page, box, {
       padding,
       mode: hints.mode ?? 'line',
       allowed: hints.allowed,
       comb: field.class === 'comb_field',
+      blank,
       // The page was deskewed as a whole; crops need no skew estimate of their own.
       skew: 0,
       accept: (r) => {
@@ -65,6 +72,10 @@ export async function readLocatedField(
     let interpretation = type.interpret(reading, options, ctx.typeContext);
     const details: Record<string, unknown> = { attempts: read.attempts };
     if (reading !== read.reading) details.droppedLabel = true;
+    if (blank && interpretation.outcome !== 'empty' && writingPastEdge(ctx.page, blank)) {
+      // The value may be cut off at the region's edge: never accepted as read.
+      interpretation = { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, 'writing_past_edge'] };
+    }
     if (interpretation.outcome === 'empty') {
       // Nothing read is not the same as nothing written: look for pen strokes on the scanned page.
       const ink = inkCoverage(cropField(ctx.page, box, padding).image);
@@ -80,18 +91,23 @@ export async function readLocatedField(
   if (boxes.length === 0) return { reading: null, interpretation: null, details: {} };
 
   if (type.reader === 'mark') {
-    const marks = located.parts.map((part) => {
-      if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false };
-      const m = measureMark(cropField(ctx.page, part.box, padding).image);
-      return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound };
+    const measured = located.parts.map((part) => {
+      if (!part.box) return { key: part.key, fillRatio: 0, boxFound: false, method: 'none' };
+      const m = measureBox(ctx.page, part.box, padding, blankPart(ctx, part));
+      return { key: part.key, fillRatio: round3(m.fillRatio), boxFound: m.boxFound, method: m.method };
     });
-    const reading: Reading = { kind: 'marks', marks };
-    return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { marks } };
+    const reading: Reading = { kind: 'marks', marks: measured.map(({ key, fillRatio, boxFound }) => ({ key, fillRatio, boxFound })) };
+    return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { marks: measured } };
   }
 
   const coverage = inkCoverage(cropField(ctx.page, boxes[0].box, padding).image);
   const reading: Reading = { kind: 'ink', coverage: round3(coverage) };
   return { reading, interpretation: type.interpret(reading, options, ctx.typeContext), details: { coverage: reading.coverage } };
+}
+
+/** The blank under a part, where the schema names a blank and the part has an aligned region. */
+function blankPart(ctx: ReadFieldContext, part: LocatedPart): BlankPart | undefined {
+  return ctx.reference && part.region && part.expected ? { reference: ctx.reference, region: part.region, onPage: part.expected } : undefined;
 }
 
 function round3(v: number): number {

@@ -1,3 +1,4 @@
+import { formMask } from '../page/dropout.js';
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import { thresholdAt, INK } from './cleanup/binary.js';
@@ -127,6 +128,13 @@ interface Outline {
 }
 
 /**
+ * Thickest printed edge, as a share of the box side: 15 % (4 px on a 29-px box at 200 dpi; printed borders are 1-3 px
+ * and a scan's blur adds a pixel or two; common practice, checked on the rendered boxes of
+ * test/fields/checkbox-pixels.test.ts).
+ */
+const EDGE_SHARE = 0.15;
+
+/**
  * A printed square: the first and last rows (columns) whose longest ink run spans at least 40 % of the crop's shorter
  * side are its top and bottom (left and right) edges. Diagonal strokes of a tick or cross have short runs along
  * rows and columns, so they do not pass for edges even where they overshoot the box.
@@ -137,14 +145,23 @@ function findSquare(mask: Uint8Array, w: number, h: number): Outline | null {
   const rows = bands(longestRuns(mask, w, h, true), minRun);
   const cols = bands(longestRuns(mask, w, h, false), minRun);
   if (rows.length === 0 || cols.length === 0) return null;
-  const top = rows[0];
-  const bottom = rows[rows.length - 1];
-  const left = cols[0];
-  const right = cols[cols.length - 1];
+  const box0 = { x: cols[0].start, y: rows[0].start, w: cols[cols.length - 1].end - cols[0].start + 1, h: rows[rows.length - 1].end - rows[0].start + 1 };
+  // A printed edge is thin. A heavy pen stroke running nearly along an edge has row (column) runs as long as an
+  // edge's and merges with it into one thick band; measuring only inside that band lost the stroke (a heavy tick
+  // with a shallow long stroke read fill 0.000 on DD Form 293; test/read/heavy-tick.test.ts). So each outer band
+  // keeps at most EDGE_SHARE of the box side as edge, and the rest of it counts as inside.
+  const edge = Math.max(3, Math.round(Math.min(box0.w, box0.h) * EDGE_SHARE));
+  const trim = (b: Band, outer: 'start' | 'end'): Band =>
+    outer === 'start' ? { start: b.start, end: Math.min(b.end, b.start + edge - 1) } : { start: Math.max(b.start, b.end - edge + 1), end: b.end };
+  const single = rows.length === 1 || cols.length === 1;
+  const top = single ? rows[0] : trim(rows[0], 'start');
+  const bottom = single ? rows[rows.length - 1] : trim(rows[rows.length - 1], 'end');
+  const left = single ? cols[0] : trim(cols[0], 'start');
+  const right = single ? cols[cols.length - 1] : trim(cols[cols.length - 1], 'end');
   const box = { x: left.start, y: top.start, w: right.end - left.start + 1, h: bottom.end - top.start + 1 };
   if (box.w < minRun || box.h < minRun || box.w / box.h > 2 || box.h / box.w > 2) return null;
   const m = innerMargin(Math.min(box.w, box.h));
-  if (top === bottom || left === right) {
+  if (single) {
     // One band each way covering the whole box: a solidly filled square; keep clear of its edges only.
     return { box, inner: insetBox(box, m * 2, m * 2), shape: 'solid' };
   }
@@ -251,6 +268,93 @@ export function measureMark(img: GrayImage): MarkMeasure {
   }
   const values = innerPixels(img, outline.inner, outline.shape === 'circle');
   return { fillRatio: fillOf(values, paper), boxFound: true, box: outline.box, inner: outline.inner, shape: outline.shape };
+}
+
+/**
+ * Misregistration absorbed when the blank is subtracted, in pixels: the blank's printed ink is grown by this much
+ * before it is set aside. 2 px is what page alignment and local refinement leave on the real W-4 (mean 1.43 px, see
+ * test/real-form/w4-extract.test.ts); on bench/real-form-marks.ts (development forms, heavy scans) 3 px lost more
+ * ticks than it removed noise (boxes right 92.4 % against 95.4 % at 2 px, contrast 40).
+ */
+export const ADDED_INK_TOLERANCE = 2;
+
+/**
+ * How much darker than the blank (at the page's paper tone) a pixel must be to be added ink, in gray levels.
+ * Measured on bench/real-form-marks.ts (14 development forms, 306 boxes, 58 one-of rows, light and heavy scans):
+ * 25 let heavy-scan noise and JPEG ringing reach 0.147 in empty boxes; 40 lost light pencil ticks; 32 gave boxes
+ * right 96.7 % / 96.1 % (light / heavy; the printed-outline measure 75.5 % / 72.9 %) and one-of rows 57 of 58 right
+ * with none sent to review (outline measure with thresholds: 38 and 37 right, 19 and 20 to review).
+ */
+export const ADDED_INK_CONTRAST = 32;
+
+/** Blank pixels at or below this gray are printed ink (anti-aliased edges of thin rules included; as dropout). */
+const BLANK_INK = 200;
+
+/** Fewer paper pixels than this inside the box after the print is set aside: too few to judge (common practice). */
+const MIN_PAPER_PIXELS = 16;
+
+/**
+ * Ink a writer added inside a printed box, judged against the blank form under the same crop (`blank`, same size
+ * as `img`, see blankUnderCrop). Each pixel of the box is compared with the lightest the blank is within
+ * `tolerance` pixels of it (misregistration), scaled to the page's paper tone: a pixel clearly darker than that is
+ * added ink. Printed outlines, a ruled line a few pixels past the box, printed shading: all are the blank's, so an
+ * empty box measures near zero whatever is printed around it; a tick or cross that overflows the box counts for the
+ * part inside it. The share is taken over the box's pixels that are paper on the blank (print grown by the
+ * tolerance set aside). `box` is the printed box in crop pixels. Null when too few paper pixels are left to judge.
+ */
+export function measureAddedInk(
+  img: GrayImage,
+  blank: GrayImage,
+  box: Box,
+  tolerance = ADDED_INK_TOLERANCE,
+  contrast = ADDED_INK_CONTRAST,
+): MarkMeasure | null {
+  const { width: w, height: h } = img;
+  const print = formMask(blank, tolerance, BLANK_INK);
+  const lightest = maxFilter(blank, tolerance);
+  const paperPixels: number[] = [];
+  for (let i = 0; i < img.data.length; i++) if (!print[i]) paperPixels.push(img.data[i]);
+  if (paperPixels.length < MIN_PAPER_PIXELS) return null;
+  // The page's paper tone (scanners rarely give 255), from the crop with the print set aside.
+  const paper = otsuSplit(Uint8Array.from(paperPixels)).lightMean;
+  const gain = paper / 255;
+  const x0 = Math.max(0, Math.round(box.x));
+  const y0 = Math.max(0, Math.round(box.y));
+  const x1 = Math.min(w, Math.round(box.x + box.w));
+  const y1 = Math.min(h, Math.round(box.y + box.h));
+  let area = 0;
+  let ink = 0;
+  for (let y = y0; y < y1; y++)
+    for (let x = x0; x < x1; x++) {
+      const i = y * w + x;
+      if (print[i]) continue;
+      area++;
+      if (lightest[i] * gain - img.data[i] >= contrast) ink++;
+    }
+  if (area < MIN_PAPER_PIXELS) return null;
+  const inner = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+  return { fillRatio: ink / area, boxFound: true, box: inner, inner, shape: 'square' };
+}
+
+/** Brightest value within a (2r+1)-square around each pixel (separable: along rows, then along columns). */
+function maxFilter(img: GrayImage, r: number): Uint8Array {
+  const { width: w, height: h } = img;
+  return maxAlong(maxAlong(img.data, w, h, r, 1, w), w, h, r, w, 1);
+}
+
+/** Running maximum over ±r samples along one axis: `step` between neighbours, `stride` between lines. */
+function maxAlong(data: Uint8Array, w: number, h: number, r: number, step: number, stride: number): Uint8Array {
+  const out = new Uint8Array(w * h);
+  const [len, lines] = step === 1 ? [w, h] : [h, w];
+  for (let line = 0; line < lines; line++) {
+    const base = line * stride;
+    for (let i = 0; i < len; i++) {
+      let m = 0;
+      for (let k = Math.max(0, i - r); k <= Math.min(len - 1, i + r); k++) m = Math.max(m, data[base + k * step]);
+      out[base + i * step] = m;
+    }
+  }
+  return out;
 }
 
 /**

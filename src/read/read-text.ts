@@ -1,7 +1,9 @@
 import type { Box } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
 import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
+import { printedUnderCrop, type BlankPart } from './blank-crop.js';
 import { cropField, type FieldCrop, type Padding } from './crop.js';
+import { ADDED_INK_TOLERANCE } from './marks.js';
 import { cleanCrop, isBlank, ruleLengths, type CleanupVariant } from './cleanup/pipeline.js';
 import { removeDashedRules, removeRuledLines } from './cleanup/line-removal.js';
 import { cellImage, combCells, joinCells } from './comb-cells.js';
@@ -27,6 +29,8 @@ export interface ReadTextOptions {
   variants?: readonly CleanupVariant[];
   /** OCR engine; default the process-wide one. */
   engine?: OcrEngine;
+  /** The blank under the field, when the schema names one: only its printed rules are removed. */
+  blank?: BlankPart;
 }
 
 /** One cleanup variant tried on a field: no text here, so details can be logged without field values. */
@@ -47,7 +51,9 @@ export interface TextFieldReading {
   crop: FieldCrop;
 }
 
-type VariantOptions = Pick<ReadTextOptions, 'mode' | 'allowed' | 'comb' | 'skew' | 'engine' | 'characterHeight'>;
+type VariantOptions = Pick<ReadTextOptions, 'mode' | 'allowed' | 'comb' | 'skew' | 'engine' | 'characterHeight'> & {
+  printed?: GrayImage;
+};
 
 /**
  * Main recipe and second tries, by measurement on bench/cleanup-gain.ts (held-out seeds 900100, heavy scans):
@@ -73,6 +79,7 @@ export async function readVariant(
     comb: options.comb,
     skew: options.skew,
     characterHeight: options.characterHeight,
+    printed: options.printed,
   });
   if (isBlank(cleaned)) return { kind: 'text', text: '', words: [], confidence: 1, variant: variant.name, blank: true };
   const engine = options.engine ?? sharedOcrEngine();
@@ -122,19 +129,23 @@ async function readCells(crop: FieldCrop, variant: CleanupVariant, options: Vari
  */
 export async function readTextField(page: GrayImage, box: Box, options: ReadTextOptions = {}): Promise<TextFieldReading> {
   const crop = cropField(page, box, options.padding ?? 4);
+  const variantOptions: VariantOptions = {
+    ...options,
+    printed: options.blank && printedUnderCrop(options.blank, crop.pageBox, ADDED_INK_TOLERANCE),
+  };
   const variants = options.variants ?? defaultVariants(options.comb ?? false);
   if (variants.length === 0) throw new Error('readTextField needs at least one cleanup variant');
   const attempts: ReadAttempt[] = [];
   const judge = (r: TextReading): boolean | null => (options.accept ? options.accept(r) : null);
 
-  const { blank, ...first } = await readVariant(crop, variants[0], options);
+  const { blank, ...first } = await readVariant(crop, variants[0], variantOptions);
   const firstOk = judge(first);
   attempts.push({ variant: variants[0].name, accepted: firstOk, confidence: first.confidence, blank });
   if (firstOk !== false) return { reading: first, attempts, crop };
 
   let best: TextReading | null = null;
   for (const variant of variants.slice(1)) {
-    const { blank: b, ...r } = await readVariant(crop, variant, options);
+    const { blank: b, ...r } = await readVariant(crop, variant, variantOptions);
     const ok = judge(r);
     attempts.push({ variant: variant.name, accepted: ok, confidence: r.confidence, blank: b });
     if (ok && (!best || r.confidence > best.confidence)) best = r;

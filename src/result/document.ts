@@ -21,7 +21,7 @@ export const FieldResult = z.object({
   name: z.string(),
   type: z.string(),
   page: z.number().int().min(0),
-  /** Normalized value (ISO 8601 date, E.164 phone, true/false for a checkbox, ...). */
+  /** Normalized value (ISO 8601 date, E.164 phone, true/false for a checkbox, ...); for an `invalid` field, the text read. */
   value: Value,
   /** What OCR returned before normalization (null for mark-read fields). */
   raw: z.string().nullable(),

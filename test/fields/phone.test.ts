@@ -37,10 +37,24 @@ describe('phone: E.164 and national format', () => {
   it('marks too-short and impossible numbers invalid_phone', () => {
     // A NANP number has ten digits (3-digit area code, 7-digit number); area codes never start with 0 or 1
     // (NANP numbering plan, from memory).
-    for (const written of ['555-0142', '207-555-014', '(107) 555-0142', '12345']) {
+    for (const written of ['555-0142', '207-555-014', '12345']) {
       const r = readAs('phone', written);
       expect(r.outcome, written).toBe('invalid');
       expect(r.reasons).toEqual(['invalid_phone']);
+    }
+  });
+
+  it('sends a possible but unassigned number to review with the number kept', () => {
+    // Ten digits (possible), but area codes 107 and 555 are not assigned: NANP area codes never start with 0 or 1,
+    // and 555 is not an area code (NANP numbering plan, from memory); libphonenumber's isPossible/isValid split is
+    // the reference (libphonenumber-js README).
+    for (const [written, e164] of [['(107) 555-0142', '+11075550142'], ['(555) 555-0142', '+15555550142']]) {
+      const r = readAs('phone', written);
+      expect(r.outcome, written).toBe('ambiguous');
+      expect(r.value).toBe(e164);
+      expect(r.reasons).toEqual(['phone_not_assigned']);
+      // Typed by a reviewer, it is taken as typed, the reason kept.
+      expect(correctAs('phone', written)).toMatchObject({ outcome: 'valid', value: e164, reasons: ['phone_not_assigned'] });
     }
   });
 

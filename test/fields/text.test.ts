@@ -24,6 +24,19 @@ describe('text', () => {
     expect(readAs('text', 'AB-1X', { pattern: '[A-Z]{2}-\\d{2}' }).reasons).toEqual(['pattern_mismatch']);
   });
 
+  it('lays the digits read into the shape option, whatever separators were written', () => {
+    // US social security number shape AAA-GG-SSSS (Social Security Administration, from memory).
+    const shape = '###-##-####';
+    for (const read of ['793004113', '793-00-4113', '793 00 4113', '7 9 3 0 0 4 1 1 3', '793.00.4113']) {
+      expect(readAs('text', read, { shape }), read).toMatchObject({ outcome: 'valid', value: '793-00-4113', reasons: [] });
+    }
+    const repaired = readAs('text', '793-O0-4113', { shape });
+    expect(repaired).toMatchObject({ value: '793-00-4113', reasons: ['repaired_digits'] });
+    expect(repaired.confidence).toBeLessThan(1);
+    expect(readAs('text', '79300411', { shape })).toMatchObject({ outcome: 'invalid', value: '79300411', reasons: ['shape_mismatch'] });
+    expect(correctAs('text', '793004113', { shape }).value).toBe('793-00-4113');
+  });
+
   it('drops the spaces OCR puts between comb cells when the pattern wants none', () => {
     expect(readAs('text', '70 4 4 1 2', { pattern: '\\d{6}' }).value).toBe('704412');
     // Without a pattern, spaces are part of the text.

@@ -72,12 +72,12 @@ describe('locating fields', () => {
   it('never gives one detection to two fields', () => {
     // One box halfway between the two name rows: it may stand for one of them at most.
     const dets = [det('text_entry', ...onPage(100, 150, 400, 50))];
-    const located = locateFields(schema.fields, dets, refToPage, { minMatch: 0.2, disagreeBelow: 0.1, preferRegion: false });
+    const located = locateFields(schema.fields, dets, refToPage, { minMatch: 0.2, preferRegion: false });
     const used = located.flatMap((l) => l.parts).filter((p) => p.source === 'detection');
     expect(used.length).toBeLessThanOrEqual(1);
   });
 
-  it('flags a unique-class detection far from the schema region, and reports a field with no region as not found', () => {
+  it('does not read a unique-class field at a detection far from its region, and reports a field with no region as not found', () => {
     const custom = parseSchemaText(
       `
 form: { name: Custom classes, version: "1" }
@@ -90,7 +90,8 @@ fields:
     );
     const dets: Detection[] = [{ box: { x: 700, y: 900, w: 200, h: 40 }, classId: 0, className: 'member_number', score: 0.9 }];
     const located = locateFields(custom.fields, dets, IDENTITY);
-    expect(located[0].parts[0].reasons).toEqual(['location_disagrees']);
+    // The only detection of the class lies elsewhere: another box, not this field's; the aligned region is read.
+    expect(located[0].parts[0]).toMatchObject({ source: 'region', box: { x: 100, y: 100, w: 300, h: 50 }, reasons: ['region_fallback'] });
     expect(located[1].parts[0]).toMatchObject({ source: 'none', box: null, reasons: [] });
   });
 });

@@ -9,7 +9,7 @@ import { filterComponents } from './components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
 import { padImage, trimAndPad } from './pad.js';
-import { thresholdAt } from './binary.js';
+import { INK, thresholdAt } from './binary.js';
 import { compactGapsAlong } from './compact.js';
 import { characterHeight } from './upscale.js';
 
@@ -36,6 +36,11 @@ export interface CleanupContext {
   skew?: number;
   /** Character height to scale to (upscale step), pixels. */
   characterHeight?: number;
+  /**
+   * Where the blank form has print under the crop (0) and paper (255), when the schema names a blank: the lines
+   * step then removes only rules printed on the blank, and pen strokes as tall or long as the cell survive.
+   */
+  printed?: GrayImage;
 }
 
 /**
@@ -48,6 +53,8 @@ interface State {
   gray: GrayImage;
   binary: boolean;
   inner: Box;
+  /** ctx.printed, moved along through rotation. */
+  printed?: GrayImage;
 }
 
 function ensureBinary(s: State): State {
@@ -72,7 +79,8 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
       if (Math.abs(angle) < 0.2) return s;
       const gray = rotateGray(s.gray, angle);
       const inner = uprightBox(s.inner, angle, s.image.width, s.image.height);
-      return { ...s, gray, image: s.binary ? thresholdAt(rotateGray(s.image, angle), 127) : gray, inner };
+      const printed = s.printed && invertedThreshold(rotateGray(s.printed, angle));
+      return { ...s, gray, image: s.binary ? thresholdAt(rotateGray(s.image, angle), 127) : gray, inner, printed };
     }
     case 'otsu':
       return { ...s, image: binarizeOtsu(s.gray), binary: true };
@@ -80,7 +88,8 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
       return { ...s, image: binarizeSauvola(s.gray, { window: Math.max(15, Math.round(s.inner.h) | 1) }), binary: true };
     case 'lines': {
       const b = ensureBinary(s);
-      return { ...b, image: removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image) };
+      const removed = removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image);
+      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed) : removed };
     }
     case 'components': {
       const b = ensureBinary(s);
@@ -122,6 +131,24 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
   }
 }
 
+/**
+ * Rule removal limited to the blank's print: ink the removal took where the blank has no print is a pen stroke (the
+ * stem of an l, t or k, a descender, an underline the writer drew) and goes back. In tight ruled cells those strokes
+ * are as tall as the cell and were erased as rules ("Stillwater" read "S-i.waer").
+ */
+function keepUnprinted(before: GrayImage, after: GrayImage, printed: GrayImage): GrayImage {
+  const data = Uint8Array.from(after.data);
+  for (let i = 0; i < data.length; i++) if (before.data[i] === INK && after.data[i] !== INK && printed.data[i] !== 0) data[i] = INK;
+  return { width: after.width, height: after.height, data };
+}
+
+/** A rotated 0/255 mask back to exactly 0 and 255 (rotation blends its edges). */
+function invertedThreshold(img: GrayImage): GrayImage {
+  const data = new Uint8Array(img.data.length);
+  for (let i = 0; i < data.length; i++) data[i] = img.data[i] < 128 ? 0 : 255;
+  return { width: img.width, height: img.height, data };
+}
+
 /** Resample `img` to exactly the size of `like` (factor rounding can differ by a pixel). */
 function resizeTo(img: GrayImage, like: GrayImage): GrayImage {
   const r = resizeBilinear(img, like.width / img.width);
@@ -160,7 +187,7 @@ export function maskedGray(gray: GrayImage, mask: GrayImage): GrayImage {
 
 /** Run a variant's steps over a field crop; returns the image to hand to OCR (blank paper when no ink is left). */
 export function cleanCrop(image: GrayImage, variant: CleanupVariant, ctx: CleanupContext): GrayImage {
-  let s: State = { image, gray: image, binary: false, inner: ctx.inner };
+  let s: State = { image, gray: image, binary: false, inner: ctx.inner, printed: ctx.printed };
   for (const step of variant.steps) s = runStep(step, s, ctx);
   return s.image;
 }

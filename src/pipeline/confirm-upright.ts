@@ -1,0 +1,32 @@
+import type { Detection, Detector } from '../detect/types.js';
+import { confirmHalfTurn } from '../page/half-turn.js';
+import type { NormalizedPage } from '../page/normalize.js';
+import type { LoadedSchema } from '../schema/load.js';
+import { referencePageImage } from './reference-images.js';
+
+/** A normalized page and what the detector found on it; replaced in place when the page is turned. */
+export interface DetectedPage {
+  normalized: NormalizedPage;
+  detections: Detection[];
+}
+
+/**
+ * Up versus down settled against the blank, for each page of a form whose schema page names one. The text cue of
+ * orientation (page/orientation.ts) reads ascenders; on a form printed in capitals it has nothing to read and can
+ * turn an upright page over (DD Form 293, upright, was turned 180° by the text cue alone; see
+ * test/pipeline/confirm-upright.test.ts). Registration with the blank does not read text. A page that is turned is
+ * detected again. Returns the indices (within `pages`) that were turned.
+ */
+export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector): Promise<number[]> {
+  const turned: number[] = [];
+  for (const [p, page] of pages.entries()) {
+    const reference = await referencePageImage(loaded, p);
+    if (!reference) continue;
+    const check = confirmHalfTurn(page.normalized, reference);
+    if (!check.flipped) continue;
+    page.normalized = check.page;
+    page.detections = await detector.detect(check.page.image);
+    turned.push(p);
+  }
+  return turned;
+}
