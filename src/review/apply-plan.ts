@@ -156,6 +156,10 @@ function decideAnswer(input: PlanInput, a: Answer, doc: PlanDocument, field: Fie
     status = same ? 'confirmed' : 'corrected';
     action = status;
   } else {
+    // An invalid field keeps the text read so the reviewer sees it, but that text failed the type's checks:
+    // confirming it would put an unchecked value in the record, so only a correction (or "(empty)") settles it.
+    if (field.status === 'invalid' && field.value !== null)
+      return { problem: `field "${field.name}" of document "${docId}" failed its checks; type a correction instead of confirming; not applied` };
     value = field.value;
     status = 'confirmed';
     extra = undefined;

@@ -183,4 +183,29 @@ describe('review apply', () => {
     const audit = await readAudit(path.join(dir, 'review', 'audit.jsonl'));
     expect(audit.map((e) => [e.field, e.action, e.via])).toEqual([['phone', 'confirmed', 'queue'], ['pet_name', 'confirmed', 'queue']]);
   });
+  it('refuses to confirm an invalid field whose text was kept, and takes a correction for it', async () => {
+    const { dir, docs } = await makeResultsFolder(1);
+    dirs.push(dir);
+    // Extract keeps the text read on a field that fails its checks (value and raw), status invalid.
+    const doc = docs[0];
+    const visit = doc.fields.find((f) => f.name === 'visit_date')!;
+    visit.value = '03/1A/2026';
+    await writeFile(path.join(dir, 'intake-0001.json'), JSON.stringify(doc, null, 2) + '\n');
+    await writeReviewQueue(dir, [doc]);
+    const queue = path.join(dir, 'review', 'queue.csv');
+    const rows = parse(await readFile(queue), { bom: true, columns: true }) as Row[];
+    pick(rows, 'intake-0001', 'visit_date').confirm = 'yes';
+    await saveAsSpreadsheet(queue, rows);
+    const report = await applyReviewQueue(queue, dir, { reviewer: 'R. Quill', now: new Date('2026-03-20T09:30:00Z') });
+    expect(report.confirmed).toBe(0);
+    expect(report.problems.map((p) => p.message)).toEqual([expect.stringMatching(/visit_date.*failed its checks; type a correction/)]);
+    expect((await readDoc(dir, 'intake-0001')).fields.find((f) => f.name === 'visit_date')).toMatchObject({ value: '03/1A/2026', status: 'invalid' });
+
+    pick(rows, 'intake-0001', 'visit_date').confirm = '';
+    pick(rows, 'intake-0001', 'visit_date').correction = '03/14/2026';
+    await saveAsSpreadsheet(queue, rows);
+    await applyReviewQueue(queue, dir, { reviewer: 'R. Quill', now: new Date('2026-03-20T09:31:00Z') });
+    // ISO 8601-1:2019 calendar date, complete extended format.
+    expect((await readDoc(dir, 'intake-0001')).fields.find((f) => f.name === 'visit_date')).toMatchObject({ value: '2026-03-14', status: 'corrected' });
+  });
 });
