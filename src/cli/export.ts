@@ -1,8 +1,10 @@
 import type { Command } from 'commander';
 import { Option } from 'commander';
+import { printable } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { recordsCsv, recordsJsonl, recordTable } from '../review/export-table.js';
 import { readResultsFolder } from '../review/result-store.js';
+import { isFailed } from '../results/results-line.js';
 
 /** `formglean export`: the checked records as one flat table for downstream systems. */
 export function registerExportCommand(program: Command): void {
@@ -19,11 +21,11 @@ export function registerExportCommand(program: Command): void {
       const folder = await readResultsFolder(opts.results);
       const table = recordTable(folder.documents.map((d) => d.result), { withStatus: opts.withStatus });
       const text = opts.format === 'jsonl' ? recordsJsonl(table) : recordsCsv(table, { formulaGuard: opts.formulaGuard, bom: opts.bom ?? false });
-      const failed = folder.lines.filter((l) => !l.ok).length;
+      const failed = folder.lines.filter(isFailed).length;
       if (failed > 0) process.stderr.write(`${failed} failed document(s) have no record and are not exported\n`);
       if (opts.out) {
         await writeFileAtomic(opts.out, text);
-        process.stderr.write(`wrote ${table.rows.length} record(s) to ${opts.out}\n`);
+        process.stderr.write(`wrote ${table.rows.length} record(s) to ${printable(opts.out)}\n`);
       } else {
         process.stdout.write(text);
       }

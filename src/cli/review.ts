@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { printable } from '../errors.js';
 import { applyReviewQueue, type ApplyReport } from '../review/apply.js';
 import { readResultsFolder } from '../review/result-store.js';
 import { reviewStatus } from '../review/status.js';
@@ -11,10 +12,10 @@ function printApplyReport(queue: string, r: ApplyReport): void {
       `${r.alreadyApplied} already applied; ${r.unanswered} row(s) without an answer\n`,
   );
   if (r.auditRecovered > 0) process.stdout.write(`audit: ${r.auditRecovered} entry(ies) recovered from an earlier run that was cut off\n`);
-  for (const s of r.changedSchemas) process.stderr.write(`warning: ${s}: schema changed since extraction; corrections were checked with the current file\n`);
-  if (r.extraColumns.length > 0) process.stdout.write(`ignored column(s): ${r.extraColumns.join(', ')}\n`);
+  for (const s of r.changedSchemas) process.stderr.write(`warning: ${printable(s)}: schema changed since extraction; corrections were checked with the current file\n`);
+  if (r.extraColumns.length > 0) process.stdout.write(`ignored column(s): ${printable(r.extraColumns.join(', '))}\n`);
   // One line per refused row: the queue file and line, never the field's value.
-  for (const p of r.problems) process.stderr.write(`${queue}:${p.line}: ${p.message}\n`);
+  for (const p of r.problems) process.stderr.write(`${printable(queue)}:${p.line}: ${printable(p.message)}\n`);
   if (r.problems.length > 0) process.stderr.write(`${r.problems.length} row(s) not applied\n`);
 }
 

@@ -12,6 +12,7 @@ import type { FieldTyping } from './field-options.js';
 import { FieldOptionsSource } from './field-options.js';
 import { auditPath, reviewDir } from './layout.js';
 import { readReviewQueue } from './queue-read.js';
+import { removeOrphanTemps } from '../results/temp-files.js';
 import { refreshResultsFiles } from './results-refresh.js';
 import { readResultsFolder, type StoredResult } from './result-store.js';
 import { updatesByDocument, recoveredEntries } from './apply-audit.js';
@@ -71,6 +72,7 @@ async function typingsFor(source: FieldOptionsSource, docs: readonly StoredResul
 export async function applyReviewQueue(queueFile: string, resultsDir: string, options: ApplyOptions = {}): Promise<ApplyReport> {
   const queue = await readReviewQueue(queueFile);
   return withApplyLock(reviewDir(resultsDir), async () => {
+    await removeOrphanTemps(resultsDir);
     const folder = await readResultsFolder(resultsDir);
     const source = new FieldOptionsSource(resultsDir);
     const typing = await typingsFor(source, folder.documents);
@@ -97,7 +99,7 @@ export async function applyReviewQueue(queueFile: string, resultsDir: string, op
     const recovered = recoveredEntries(plan.alreadyApplied, current, await readAudit(audit), path.resolve(queueFile));
     await appendAudit(audit, [...plan.updates.map((u: FieldUpdate) => u.entry), ...recovered]);
     const results = [...current.values()].map((d) => d.result);
-    await refreshResultsFiles(resultsDir, folder.lines, results);
+    await refreshResultsFiles(resultsDir, folder.lines, results, folder.needsWrite);
 
     const documents = folder.documents.map((d) => d.result);
     return {
