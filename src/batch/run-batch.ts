@@ -5,7 +5,7 @@ import path from 'node:path';
 import type { Detector } from '../detect/types.js';
 import { configError, FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
-import { extractFile } from '../pipeline/extract-document.js';
+import { extractForms } from '../pipeline/extract-document.js';
 import { referencePageImage } from '../pipeline/reference-images.js';
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
@@ -152,7 +152,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
       fileLines.push(...reused.map(okLine));
     } else {
       try {
-        const forms = await extractFile(file, {
+        const forms = extractForms(file, {
           schema: options.schemas,
           detector: options.detector,
           documentId: stems.get(file) as string,
@@ -162,7 +162,8 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
           today: options.today,
         });
         const earlier = await earlierRecords(options.outDir, own);
-        for (const { result: read, pages } of forms) {
+        // Each form is written as soon as it is read, and its pages let go.
+        for await (const { result: read, pages } of forms) {
           const requested = read.document.id;
           read.document.id = claims.claim(requested, file);
           const before = earlier.get(read.document.id);

@@ -4,7 +4,7 @@ import type { Detection, Detector } from '../detect/types.js';
 import { legibilityFactors } from '../fields/legibility.js';
 import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
-import { decodeDocument, DEFAULT_LIMITS } from '../input/decode.js';
+import { DEFAULT_LIMITS, openDocument } from '../input/decode.js';
 import { DEFAULT_LOCATE, locateFields, type LocatedField } from '../locate/locate-fields.js';
 import type { Alignment } from '../page/alignment.js';
 import { dropoutForm } from '../page/dropout.js';
@@ -15,6 +15,8 @@ import type { GrayImage } from '../page/raster.js';
 import type { DocumentResult, FieldResult, PageResult } from '../result/document.js';
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
 import type { LoadedSchema } from '../schema/load.js';
+import { documentError } from '../errors.js';
+import { alignmentProblem, pageProblem } from './page-gate.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
@@ -62,38 +64,53 @@ interface PreparedPage {
 }
 
 /**
- * One file through every stage: decode, normalize, detect, choose layout, align, locate, read, score. A file holds one
- * form, or a stack of forms scanned together (a multi-page TIFF of single-page forms): after each form's first page
- * the layout says how many pages the form takes, and the next page starts the next form.
+ * One file through every stage: decode, gate, normalize, detect, choose layout, align, locate, read, score. A file
+ * holds one form, or a stack of forms scanned together (a multi-page TIFF of single-page forms): after each form's
+ * first page the layout says how many pages the form takes, and the next page starts the next form. Pages are
+ * decoded one at a time and each form is handed on when read, so a long stack holds one form's pages at a time.
+ * A page nothing can be read from (blank, black, too small: src/pipeline/page-gate.ts) fails the file with the reason.
  */
-export async function extractFile(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument[]> {
+export async function* extractForms(input: string | Buffer, options: ExtractOptions): AsyncGenerator<ExtractedDocument> {
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
-  const decoded = await decodeDocument(input, options.limits ?? DEFAULT_LIMITS);
-  const prepared: PreparedPage[] = [];
-  for (const [index, source] of decoded.pages.entries()) {
-    const started = performance.now();
-    const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
-    prepared.push({ index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started });
+  const doc = await openDocument(input, options.limits ?? DEFAULT_LIMITS);
+  try {
+    const prepare = async (index: number): Promise<PreparedPage> => {
+      const source = await doc.page(index);
+      const problem = pageProblem(source);
+      if (problem) throw documentError(doc.source, `page ${index + 1} ${problem}`);
+      const started = performance.now();
+      const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
+      return { index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started };
+    };
+    const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : doc.sha256.slice(0, 12));
+    for (let first = 0; first < doc.pageCount; ) {
+      const head = await prepare(first);
+      const started = performance.now();
+      const choice = await chooseLayout(schemas, head.normalized.image, head.detections);
+      const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
+      const formPages = [head];
+      for (let i = 1; i < count; i++) formPages.push(await prepare(first + i));
+      const stacked = first > 0 || first + count < doc.pageCount;
+      const id = stacked ? `${stem}.p${first + 1}` : stem;
+      const result = await extractForm(formPages, choice, schemas.length, {
+        ...options,
+        id,
+        source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
+        sha256: doc.sha256,
+      });
+      result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
+      yield { result, pages: formPages.map((p) => p.source) };
+      first += count;
+    }
+  } finally {
+    doc.close();
   }
-  const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : decoded.sha256.slice(0, 12));
+}
+
+/** Every form of a file (see extractForms), read in full before returning. */
+export async function extractFile(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument[]> {
   const forms: ExtractedDocument[] = [];
-  for (let first = 0; first < prepared.length; ) {
-    const started = performance.now();
-    const choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
-    const count = Math.min(choice.schema.schema.pages.length, prepared.length - first);
-    const formPages = prepared.slice(first, first + count);
-    const stacked = first > 0 || first + count < prepared.length;
-    const id = stacked ? `${stem}.p${first + 1}` : stem;
-    const result = await extractForm(formPages, choice, schemas.length, {
-      ...options,
-      id,
-      source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
-      sha256: decoded.sha256,
-    });
-    result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
-    forms.push({ result, pages: formPages.map((p) => p.source) });
-    first += count;
-  }
+  for await (const form of extractForms(input, options)) forms.push(form);
   return forms;
 }
 
@@ -117,8 +134,10 @@ async function extractForm(
   const pages: PageResult[] = [];
   const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine }[] = [];
 
+  const unaligned = new Set<number>();
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
+    if (alignmentProblem(alignment)) unaligned.add(p);
     pages.push({
       index: p,
       ...(index !== p ? { filePage: index } : {}),
@@ -158,6 +177,11 @@ async function extractForm(
     const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i]);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
+      if (field.status === 'accepted') field.status = 'review';
+    }
+    // The page gate's second half: on a page that does not fit its layout, no reading is accepted.
+    if (unaligned.has(lf.field.page)) {
+      field.reasons.push('page_not_aligned');
       if (field.status === 'accepted') field.status = 'review';
     }
     fields.push(field);

@@ -4,7 +4,7 @@ import { isFailed } from './results-line.js';
 
 export interface BatchSummary {
   createdAt: string;
-  documents: { total: number; processed: number; failed: number; skipped: number };
+  documents: { total: number; processed: number; failed: number };
   pages: number;
   fields: { total: number; byStatus: Record<FieldStatus, number> };
   /** Share of fields accepted without review. */
@@ -31,7 +31,7 @@ export function summarize(lines: readonly ResultsLine[]): BatchSummary {
   const skipped = lines.filter((l) => l.skipped !== undefined).map((l) => ({ path: l.path, reason: l.skipped as string }));
   return {
     createdAt: new Date().toISOString(),
-    documents: { total: processed + failed, processed, failed, skipped: skipped.length },
+    documents: { total: processed + failed, processed, failed },
     pages,
     fields: { total, byStatus },
     straightThroughRate: total > 0 ? byStatus.accepted / total : null,

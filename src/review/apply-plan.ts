@@ -1,6 +1,6 @@
 import type { FieldValue } from '../fields/types.js';
 import type { DocumentResult, FieldResult } from '../result/document.js';
-import { isEmptyCorrection, readConfirm } from './answers.js';
+import { isEmptyCorrection, readConfirm, typedCellProblem } from './answers.js';
 import type { AuditEntry } from './audit.js';
 import type { FieldTyping } from './field-options.js';
 import type { QueueEntry } from './queue-read.js';
@@ -82,6 +82,11 @@ export function planApply(input: PlanInput): ApplyPlan {
 
     if (correction === '' && confirm === 'not_confirmed') {
       plan.unanswered++;
+      continue;
+    }
+    const cellProblem = typedCellProblem('correction', correction) ?? typedCellProblem('note', note ?? '');
+    if (cellProblem) {
+      refuse(cellProblem);
       continue;
     }
     if (rowId === '') {
