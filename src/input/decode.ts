@@ -71,7 +71,7 @@ export async function openDocument(input: string | Buffer, limits: DecodeLimits 
     const m = page === 0 ? meta : await pageMeta(bytes, source, page);
     const w = m.width ?? 0;
     const h = m.pageHeight ?? m.height ?? 0;
-    checkPageSize(source, page, w, h, limits);
+    checkPageSize(source, pageCount > 1 ? `page ${page + 1} is` : 'page is', w, h, limits);
     total += w * h;
     checkTotalPixels(source, total, limits);
   }

@@ -37,12 +37,13 @@ export interface PageSource {
   close(): void;
 }
 
-export function checkPageSize(source: string, index: number, w: number, h: number, limits: DecodeLimits, verb = 'is'): void {
+/** `page` says which page and how it was measured: "page is", "page 3 is", "page 3 renders to". */
+export function checkPageSize(source: string, page: string, w: number, h: number, limits: DecodeLimits): void {
   if (w * h > limits.maxPixels) {
-    throw documentError(source, `page ${index + 1} ${verb} ${w}x${h} = ${w * h} pixels, over the ${limits.maxPixels}-pixel limit`);
+    throw documentError(source, `${page} ${w}x${h} = ${w * h} pixels, over the ${limits.maxPixels}-pixel limit`);
   }
   if (Math.min(w, h) < limits.minSide) {
-    throw documentError(source, `page ${index + 1} ${verb} ${w}x${h} pixels: a side under ${limits.minSide} px cannot hold a form`);
+    throw documentError(source, `${page} ${w}x${h} pixels: a side under ${limits.minSide} px cannot hold a form`);
   }
 }
 

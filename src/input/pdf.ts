@@ -40,7 +40,7 @@ export async function openPdf(bytes: Buffer, source: string, limits: DecodeLimit
       const { originalWidth, originalHeight } = page.getOriginalSize();
       return { w: Math.round(originalWidth * scale), h: Math.round(originalHeight * scale) };
     });
-    sizes.forEach(({ w, h }, i) => checkPageSize(source, i, w, h, limits, 'renders to'));
+    sizes.forEach(({ w, h }, i) => checkPageSize(source, `page ${i + 1} renders to`, w, h, limits));
     checkTotalPixels(source, sizes.reduce((a, s) => a + s.w * s.h, 0), limits);
   } catch (err) {
     doc.destroy();
