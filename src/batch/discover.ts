@@ -67,12 +67,17 @@ class Discovery {
     const own = OWN_OUTPUT_NAMES.find((o) => o.pattern.test(base));
     if (own && !named) return this.skip(file, `formglean's own output (${own.what})`);
     const real = await realpath(file).catch(() => path.resolve(file));
+    const here = path.resolve(file);
     const first = this.files.get(real);
-    if (first !== undefined) {
-      if (first !== path.resolve(file)) this.skip(file, `same file as ${first} (a second link to it)`);
-      return;
+    if (first === undefined || first === here) {
+      this.files.set(real, here);
+    } else if (here === real) {
+      // The file itself, found after a link to it: the file keeps its own name and id, the link is skipped.
+      this.files.set(real, here);
+      this.skip(first, `same file as ${here} (a second link to it)`);
+    } else {
+      this.skip(file, `same file as ${first} (a second link to it)`);
     }
-    this.files.set(real, path.resolve(file));
   }
 
   async addFolder(dir: string): Promise<void> {

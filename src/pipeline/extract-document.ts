@@ -14,6 +14,7 @@ import { normalizePage } from '../page/normalize.js';
 import type { GrayImage } from '../page/raster.js';
 import type { DocumentResult, FieldResult, PageResult } from '../result/document.js';
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
+import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { documentError } from '../errors.js';
 import { alignmentProblem, pageProblem } from './page-gate.js';
@@ -134,10 +135,9 @@ async function extractForm(
   const pages: PageResult[] = [];
   const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine }[] = [];
 
-  const unaligned = new Set<number>();
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
-    if (alignmentProblem(alignment)) unaligned.add(p);
+    const misfit = alignmentProblem(alignment) !== null;
     pages.push({
       index: p,
       ...(index !== p ? { filePage: index } : {}),
@@ -150,6 +150,12 @@ async function extractForm(
     });
     const toSource = invertAffine(normalized.transform);
     const pageFields = schema.fields.filter((f) => f.page === p);
+    // The page gate's second half: a page that does not fit its layout is not read (its boxes would be guesses,
+    // some off the page); each of its fields goes to review.
+    if (misfit) {
+      fields.push(...pageFields.map((f) => unreadField(f, 'review', 'page_not_aligned')));
+      continue;
+    }
     const located = locateFields(pageFields, detections, alignment.refToPage, {
       ...DEFAULT_LOCATE,
       preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
@@ -179,30 +185,11 @@ async function extractForm(
       field.reasons.push('unknown_layout');
       if (field.status === 'accepted') field.status = 'review';
     }
-    // The page gate's second half: on a page that does not fit its layout, no reading is accepted.
-    if (unaligned.has(lf.field.page)) {
-      field.reasons.push('page_not_aligned');
-      if (field.status === 'accepted') field.status = 'review';
-    }
     fields.push(field);
   }
 
   // Fields on pages the file does not have (a form cut short).
-  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) {
-    fields.push({
-      name: f.name,
-      type: f.type,
-      page: f.page,
-      value: null,
-      raw: null,
-      status: f.required ? 'missing' : 'review',
-      confidence: 0,
-      reasons: ['page_missing'],
-      box: null,
-      source: 'none',
-      scores: {},
-    });
-  }
+  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) fields.push(unreadField(f, f.required ? 'missing' : 'review', 'page_missing'));
   const order = new Map(schema.fields.map((f, i) => [f.name, i]));
   fields.sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
 
@@ -220,4 +207,9 @@ async function extractForm(
     counts: countStatuses(fields),
     seconds: 0,
   };
+}
+
+/** A field that was not read at all (its page is missing, or does not fit the layout): no value, no box. */
+function unreadField(f: FieldSpec, status: 'missing' | 'review', reason: string): FieldResult {
+  return { name: f.name, type: f.type, page: f.page, value: null, raw: null, status, confidence: 0, reasons: [reason], box: null, source: 'none', scores: {} };
 }
