@@ -34,6 +34,18 @@ export interface TrialOutcome {
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
+/** Start a command, SIGKILL it after `ms`, and say whether it was still running then. */
+async function killAfter(args: readonly string[], ms: number): Promise<boolean> {
+  const run = startCli(args);
+  let exited = false;
+  void run.done.then(() => (exited = true));
+  await sleep(ms);
+  const midway = !exited;
+  run.child.kill('SIGKILL');
+  await run.done;
+  return midway;
+}
+
 async function valuesOf(dir: string): Promise<Values> {
   const index = await readIndex(dir, () => undefined);
   const out: Values = {};
@@ -100,13 +112,7 @@ export async function extractKillTrial(fx: ExtractFixture, dir: string, killAfte
   await rm(dir, { recursive: true, force: true });
   await cp(fx.answered, dir, { recursive: true });
   const inputs = resume ? [fx.scans, fx.extra] : [fx.scans];
-  const run = startCli(['extract', ...inputs, '--schema', KILL_SCHEMA, '--out', dir, ...(resume ? ['--resume'] : [])]);
-  let exited = false;
-  void run.done.then(() => (exited = true));
-  await sleep(killAfterMs);
-  const killedMidway = !exited;
-  run.child.kill('SIGKILL');
-  await run.done;
+  const killedMidway = await killAfter(['extract', ...inputs, '--schema', KILL_SCHEMA, '--out', dir, ...(resume ? ['--resume'] : [])], killAfterMs);
   const rerun = await runCli(['extract', ...inputs, '--schema', KILL_SCHEMA, '--out', dir, '--resume']);
   const values = await valuesOf(dir);
   const expected: Values = { ...fx.expectedAnswered, ...(resume ? { 'a-new': fx.expectedExtra } : {}) };
@@ -140,13 +146,7 @@ export async function applyKillTrial(documents: number, killAfterMs: number): Pr
   }
   await writeFile(queue, stringify(rows, { header: true, bom: true, record_delimiter: '\r\n' }));
   const args = ['review', 'apply', queue, '--results', dir, '--reviewer', 'R. Quill'];
-  const run = startCli(args);
-  let exited = false;
-  void run.done.then(() => (exited = true));
-  await sleep(killAfterMs);
-  const killedMidway = !exited;
-  run.child.kill('SIGKILL');
-  await run.done;
+  const killedMidway = await killAfter(args, killAfterMs);
   const rerun = await runCli(args);
   const audit = await readAudit(path.join(dir, 'review', 'audit.jsonl'));
   const byId = new Map(rows.map((r) => [r.row_id, r]));
