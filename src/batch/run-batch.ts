@@ -107,6 +107,18 @@ async function earlierRecords(outDir: string, own: readonly ResultsLine[]): Prom
 }
 
 /**
+ * The id an input had in the folder before, so that it keeps it when this run's inputs name it differently (a folder
+ * then, the file alone now): ids derive from the path relative to the run's inputs, and a new id would leave the old
+ * record, with its review answers, unlisted. A stack's forms share the stem before ".pN".
+ */
+function previousStem(own: readonly ResultsLine[]): string | undefined {
+  const ids = own.map((l) => l.requestedId ?? l.document).filter((id) => id !== '');
+  if (ids.length === 1) return ids[0];
+  const stems = new Set(ids.map((id) => id.replace(/\.p\d+$/, '')));
+  return stems.size === 1 ? [...stems][0] : undefined;
+}
+
+/**
  * Everything that can stop the run as a configuration error is checked before the results folder is touched: the
  * inputs exist, every schema's blank reference images decode, the folder can be created and written.
  */
@@ -144,6 +156,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
 
   for (const [index, file] of files.entries()) {
     const own = previous.filter((l) => l.path === file);
+    const stem = previousStem(own) ?? (stems.get(file) as string);
     const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
     const fileLines: ResultsLine[] = [];
     if (reused) {
@@ -155,7 +168,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
         const forms = extractForms(file, {
           schema: options.schemas,
           detector: options.detector,
-          documentId: stems.get(file) as string,
+          documentId: stem,
           deskew: options.deskew,
           orientation: options.orientation,
           dropout: options.dropout,
@@ -176,7 +189,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
       } catch (err) {
         if (err instanceof FormgleanError && err.exitCode === 2) throw err;
         const message = err instanceof FormgleanError ? oneLine(err) : `${file}: ${oneLine(err)}`;
-        fileLines.push(failedLine(claims.claim(stems.get(file) as string, file), file, message));
+        fileLines.push(failedLine(claims.claim(stem, file), file, message));
       }
     }
     await appendJournal(options.outDir, { path: file, lines: fileLines });
