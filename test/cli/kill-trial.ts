@@ -56,6 +56,10 @@ async function valuesOf(dir: string): Promise<Values> {
   return out;
 }
 
+function sortedKeys(values: Values): Values {
+  return Object.fromEntries(Object.entries(values).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)));
+}
+
 function reviewedCount(values: Values): number {
   return Object.values(values).reduce((n, fs) => n + fs.filter(([, , s]) => s === 'corrected' || s === 'confirmed').length, 0);
 }
@@ -121,7 +125,7 @@ export async function extractKillTrial(fx: ExtractFixture, dir: string, killAfte
     killAfterMs,
     killedMidway,
     rerunCode: rerun.code,
-    identical: JSON.stringify(values) === JSON.stringify(expected),
+    identical: JSON.stringify(sortedKeys(values)) === JSON.stringify(sortedKeys(expected)),
     orphans: await orphansIn(dir),
     answers: fx.answers,
     lostAnswers: fx.answers - reviewedCount(values),
