@@ -46,7 +46,8 @@ function isStale(owner: Owner): boolean {
  * runs taking over at once cannot both win.
  */
 async function acquire(lock: string, me: Owner): Promise<void> {
-  const mine = `${lock}.${me.pid}.${me.token}`;
+  // Named like src/io/atomic-write.ts's temp files, so that a run killed here leaves nothing the next run keeps.
+  const mine = `${lock}.${me.pid}.${me.token.slice(0, 8)}.tmp`;
   await writeFile(mine, JSON.stringify(me));
   try {
     for (let attempt = 0; attempt < 5; attempt++) {
@@ -64,7 +65,7 @@ async function acquire(lock: string, me: Owner): Promise<void> {
       if (!isStale(owner)) {
         throw configError(lock, `another review apply (pid ${owner.pid}${owner.host !== me.host ? ` on ${owner.host}` : ''}) is running on this results folder`);
       }
-      const aside = `${lock}.stale.${me.pid}.${me.token}`;
+      const aside = `${lock}.stale.${me.pid}.${me.token.slice(8, 16)}.tmp`;
       try {
         await rename(lock, aside);
       } catch (err) {
