@@ -153,7 +153,8 @@ async function extractForm(
     // The page gate's second half: a page that does not fit its layout is not read (its boxes would be guesses,
     // some off the page); each of its fields goes to review.
     if (misfit) {
-      fields.push(...pageFields.map((f) => unreadField(f, 'review', 'page_not_aligned')));
+      const why = choice.status === 'unknown_layout' ? ['unknown_layout', 'page_not_aligned'] : ['page_not_aligned'];
+      fields.push(...pageFields.map((f) => unreadField(f, 'review', ...why)));
       continue;
     }
     const located = locateFields(pageFields, detections, alignment.refToPage, {
@@ -210,6 +211,6 @@ async function extractForm(
 }
 
 /** A field that was not read at all (its page is missing, or does not fit the layout): no value, no box. */
-function unreadField(f: FieldSpec, status: 'missing' | 'review', reason: string): FieldResult {
-  return { name: f.name, type: f.type, page: f.page, value: null, raw: null, status, confidence: 0, reasons: [reason], box: null, source: 'none', scores: {} };
+function unreadField(f: FieldSpec, status: 'missing' | 'review', ...reasons: string[]): FieldResult {
+  return { name: f.name, type: f.type, page: f.page, value: null, raw: null, status, confidence: 0, reasons, box: null, source: 'none', scores: {} };
 }
