@@ -34,11 +34,12 @@ export interface TrialOutcome {
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-/** Start a command, SIGKILL it after `ms`, and say whether it was still running then. */
-async function killAfter(args: readonly string[], ms: number): Promise<boolean> {
+/** Start a command, SIGKILL it `ms` after it starts (or after `started` holds), and say whether it still ran then. */
+async function killAfter(args: readonly string[], ms: number, started?: () => Promise<boolean>): Promise<boolean> {
   const run = startCli(args);
   let exited = false;
   void run.done.then(() => (exited = true));
+  while (started && !exited && !(await started())) await sleep(5);
   await sleep(ms);
   const midway = !exited;
   run.child.kill('SIGKILL');
@@ -132,7 +133,11 @@ export async function extractKillTrial(fx: ExtractFixture, dir: string, killAfte
   };
 }
 
-/** Kill a review apply of a fully answered queue (confirmations and corrections) and apply it again. */
+/**
+ * Kill a review apply of a fully answered queue (confirmations and corrections) and apply it again. The kill comes
+ * `killAfterMs` after the first document carries an answer, so that it falls among the writes (documents, audit
+ * log, index) rather than during the process's start.
+ */
 export async function applyKillTrial(documents: number, killAfterMs: number): Promise<TrialOutcome & { dir: string }> {
   const { dir, docs } = await makeResultsFolder(documents, 'fg-kill-apply-');
   await writeReviewQueue(dir, docs);
@@ -150,7 +155,8 @@ export async function applyKillTrial(documents: number, killAfterMs: number): Pr
   }
   await writeFile(queue, stringify(rows, { header: true, bom: true, record_delimiter: '\r\n' }));
   const args = ['review', 'apply', queue, '--results', dir, '--reviewer', 'R. Quill'];
-  const killedMidway = await killAfter(args, killAfterMs);
+  const first = path.join(dir, `${rows[0].document}.json`);
+  const killedMidway = await killAfter(args, killAfterMs, async () => /"status": "(confirmed|corrected)"/.test(await readFile(first, 'utf8')));
   const rerun = await runCli(args);
   const audit = await readAudit(path.join(dir, 'review', 'audit.jsonl'));
   const byId = new Map(rows.map((r) => [r.row_id, r]));
