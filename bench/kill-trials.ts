@@ -29,7 +29,7 @@ const report = (o: TrialOutcome) => {
   outcomes.push(o);
   const ok = o.rerunCode === 0 && o.identical && o.orphans.length === 0 && o.lostAnswers === 0;
   console.log(
-    `${String(outcomes.length).padStart(2)} ${o.kind.padEnd(16)} kill at ${String(o.killAfterMs).padStart(6)} ms${o.kind === "review apply" ? " after its first write" : ""}` +
+    `${String(outcomes.length).padStart(2)} ${o.kind.padEnd(16)} kill at ${String(o.killAfterMs).padStart(6)} ms${o.kind === 'review apply' ? ' after its first write' : ''}` +
       `${o.killedMidway ? ' (mid-run)' : ' (after end)'}: rerun exit ${o.rerunCode}, values ${o.identical ? 'identical' : 'DIFFER'}, ` +
       `orphans ${o.orphans.length}, answers lost ${o.lostAnswers}/${o.answers} ${ok ? 'ok' : 'FAIL'}`,
   );
