@@ -37,7 +37,7 @@ describe(`SIGKILL at random points (seed ${seed})`, () => {
 
   it('review apply: the rerun holds every answer once in the records and the audit, no temp file or lock left', async () => {
     for (let i = 0; i < 2; i++) {
-      const outcome = await applyKillTrial(150, Math.round(next() * 3000));
+      const outcome = await applyKillTrial(150, Math.round(next() * 1000));
       dirs.push(outcome.dir);
       expect(outcome).toMatchObject({ rerunCode: 0, identical: true, orphans: [], lostAnswers: 0 });
     }
