@@ -15,7 +15,7 @@ export { formSchemaJsonSchema } from './schema/json-schema.js';
 export { loadDetector } from './detect/onnx-detector.js';
 export type { Detector, Detection, DetectOptions } from './detect/types.js';
 export { DEFAULT_MODEL_PATH } from './models.js';
-export { extractDocument, extractFile } from './pipeline/extract-document.js';
+export { extractDocument, extractFile, extractForms } from './pipeline/extract-document.js';
 export type { ExtractOptions, ExtractedDocument } from './pipeline/extract-document.js';
 export { runBatch, runBatch as extractBatch } from './batch/run-batch.js';
 export type { BatchOptions, BatchReport, DocumentEvent } from './batch/run-batch.js';

@@ -1,18 +1,28 @@
 import { createHash } from 'node:crypto';
-import { mkdir, readFile } from 'node:fs/promises';
+import { constants } from 'node:fs';
+import { access, mkdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { Detector } from '../detect/types.js';
-import { FormgleanError, oneLine } from '../errors.js';
+import { configError, FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
-import { extractFile } from '../pipeline/extract-document.js';
+import { extractForms } from '../pipeline/extract-document.js';
+import { referencePageImage } from '../pipeline/reference-images.js';
 import type { DocumentResult } from '../result/document.js';
-import { DocumentResult as DocumentResultSchema } from '../result/document.js';
+import { readResultsRecord } from '../results/document-record.js';
+import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
+import { appendJournal, writeIndex } from '../results/index-write.js';
+import { documentJsonName } from '../results/layout.js';
+import type { ResultsLine } from '../results/results-line.js';
+import { failedLine, okLine, skippedLine, withRequestedId } from '../results/results-line.js';
+import type { BatchSummary } from '../results/summary.js';
+import { summarize } from '../results/summary.js';
+import { removeOrphanTemps } from '../results/temp-files.js';
 import { writeReviewCrops } from '../review/crops.js';
 import { writeReviewQueue } from '../review/queue-write.js';
 import type { LoadedSchema } from '../schema/load.js';
+import { carryReviewedFields } from './carry-review.js';
 import { discoverInputs, documentIds } from './discover.js';
-import type { BatchSummary, ResultsLine } from './sinks.js';
-import { documentJsonName, failedLine, okLine, readResultsLines, writeBatchOutputs } from './sinks.js';
+import { IdClaims } from './id-claims.js';
 
 export interface BatchOptions {
   inputs: readonly string[];
@@ -29,6 +39,8 @@ export interface BatchOptions {
   today?: Date;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
+  /** Warnings about the results folder (an index rebuilt); default: printed on stderr. Never field values. */
+  warn?: Warn;
 }
 
 export interface DocumentEvent {
@@ -40,35 +52,41 @@ export interface DocumentEvent {
 }
 
 export interface BatchReport {
+  /** This run's documents. */
   summary: BatchSummary;
+  /** The whole results folder after the run (what summary.json holds): other inputs' records stay listed. */
+  folder: BatchSummary;
+  /** This run's lines, skipped inputs included. */
   lines: ResultsLine[];
   results: DocumentResult[];
 }
 
+async function sha256Of(file: string): Promise<string> {
+  return createHash('sha256').update(await readFile(file)).digest('hex');
+}
+
+/** Same scan, an offered schema and the same model: what a record needs to be reused or to hand its answers on. */
+function sameInputs(record: DocumentResult, sha: string, options: BatchOptions): boolean {
+  return (
+    record.document.sha256 === sha &&
+    options.schemas.some((s) => s.sha256 === record.schema.sha256) &&
+    record.model.sha256 === options.detector.sha256
+  );
+}
+
 /**
  * The records a previous run wrote for this file, when the file, the schemas and the model are unchanged: a file
- * that held a stack of forms has several (id, id.p2, ...), listed by the previous results.jsonl.
+ * that held a stack of forms has several (id.p1, id.p2, ...), all listed in the index.
  */
-async function reusable(
-  outDir: string,
-  previousLines: readonly ResultsLine[],
-  id: string,
-  file: string,
-  options: BatchOptions,
-): Promise<DocumentResult[] | null> {
+async function reusable(outDir: string, own: readonly ResultsLine[], file: string, options: BatchOptions): Promise<DocumentResult[] | null> {
   try {
-    const own = previousLines.filter((l) => l.path === file && l.ok && l.json);
-    if (own.length === 0) return null;
-    const sha = createHash('sha256').update(await readFile(file)).digest('hex');
+    const ok = own.filter((l) => l.ok && l.json);
+    if (ok.length === 0 || ok.length !== own.length) return null;
+    const sha = await sha256Of(file);
     const records: DocumentResult[] = [];
-    for (const l of own) {
-      const previous = DocumentResultSchema.parse(JSON.parse(await readFile(path.join(outDir, l.json as string), 'utf8')));
-      const same =
-        previous.document.sha256 === sha &&
-        (previous.document.id === id || previous.document.id.startsWith(`${id}.p`)) &&
-        options.schemas.some((s) => s.sha256 === previous.schema.sha256) &&
-        previous.model.sha256 === options.detector.sha256;
-      if (!same) return null;
+    for (const l of ok) {
+      const previous = await readResultsRecord(path.join(outDir, l.json as string));
+      if (!sameInputs(previous, sha, options)) return null;
       records.push(previous);
     }
     return records;
@@ -77,55 +95,116 @@ async function reusable(
   }
 }
 
+/** Earlier records of this file that may hand reviewed fields on to a new reading (same scan, schema and model). */
+async function earlierRecords(outDir: string, own: readonly ResultsLine[]): Promise<Map<string, DocumentResult>> {
+  const out = new Map<string, DocumentResult>();
+  for (const l of own) {
+    if (!l.ok || !l.json) continue;
+    const r = await readResultsRecord(path.join(outDir, l.json)).catch(() => null);
+    if (r) out.set(r.document.id, r);
+  }
+  return out;
+}
+
 /**
- * Extract every input document into outDir: one JSON per document, results.jsonl and summary.json (rewritten after
- * each document, so an interrupted run leaves a consistent record), review crops and the review queue. A document that
- * fails is recorded with its error and the batch goes on; a configuration error stops it.
+ * The id an input had in the folder before, so that it keeps it when this run's inputs name it differently (a folder
+ * then, the file alone now): ids derive from the path relative to the run's inputs, and a new id would leave the old
+ * record, with its review answers, unlisted. A stack's forms share the stem before ".pN".
+ */
+function previousStem(own: readonly ResultsLine[]): string | undefined {
+  const ids = own.map((l) => l.requestedId ?? l.document).filter((id) => id !== '');
+  if (ids.length === 1) return ids[0];
+  const stems = new Set(ids.map((id) => id.replace(/\.p\d+$/, '')));
+  return stems.size === 1 ? [...stems][0] : undefined;
+}
+
+/**
+ * Everything that can stop the run as a configuration error is checked before the results folder is touched: the
+ * inputs exist, every schema's blank reference images decode, the folder can be created and written.
+ */
+async function checkBeforeWriting(options: BatchOptions): Promise<void> {
+  for (const s of options.schemas) for (const [i] of s.schema.pages.entries()) await referencePageImage(s, i);
+  try {
+    await mkdir(options.outDir, { recursive: true });
+    await access(options.outDir, constants.W_OK);
+  } catch (err) {
+    throw configError(options.outDir, `cannot write the results folder (${(err as NodeJS.ErrnoException).code ?? oneLine(err)})`);
+  }
+}
+
+/**
+ * Extract every input document into outDir: one JSON per document, review crops, the index (results.jsonl and
+ * summary.json) and the review queue. The index is never emptied: each finished input is appended to a journal
+ * that any reader replays, and the new index (this run's inputs merged into the previous one, other inputs' records
+ * still listed) replaces the old one atomically at the end. A document that fails is recorded with its error and the
+ * batch goes on; a configuration error stops it with the folder as it was.
  */
 export async function runBatch(options: BatchOptions): Promise<BatchReport> {
-  const files = await discoverInputs(options.inputs);
-  const ids = documentIds(files);
-  await mkdir(options.outDir, { recursive: true });
-  // Read before anything is rewritten: --resume trusts only records that the previous run listed.
-  const previousLines = options.resume ? await readResultsLines(options.outDir).catch(() => []) : [];
+  const warn = options.warn ?? warnOnStderr;
+  const { files, skipped } = await discoverInputs(options.inputs, { exclude: [options.outDir] });
+  await checkBeforeWriting(options);
+  await removeOrphanTemps(options.outDir);
+  const index = await readIndex(options.outDir, warn);
+  // A run cut off earlier left a journal (or a summary behind its index): fold it in before anything else.
+  if (index.needsWrite) await writeIndex(options.outDir, index.lines);
+  const previous = index.lines.filter((l) => l.skipped === undefined);
+  const inRun = new Set(files);
+  const claims = new IdClaims(previous.filter((l) => !inRun.has(l.path)));
+  const stems = documentIds(files);
   const lines: ResultsLine[] = [];
   const results: DocumentResult[] = [];
-  let summary = await writeBatchOutputs(options.outDir, lines);
 
   for (const [index, file] of files.entries()) {
-    const id = ids.get(file) as string;
-    const reused = options.resume ? await reusable(options.outDir, previousLines, id, file, options) : null;
+    const own = previous.filter((l) => l.path === file);
+    const stem = previousStem(own) ?? (stems.get(file) as string);
+    const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
     const fileLines: ResultsLine[] = [];
     if (reused) {
+      for (const r of reused) claims.claim(r.document.id, file);
       results.push(...reused);
       fileLines.push(...reused.map(okLine));
     } else {
       try {
-        const forms = await extractFile(file, {
+        const forms = extractForms(file, {
           schema: options.schemas,
           detector: options.detector,
-          documentId: id,
+          documentId: stem,
           deskew: options.deskew,
           orientation: options.orientation,
           dropout: options.dropout,
           today: options.today,
         });
-        for (const { result, pages } of forms) {
+        const earlier = await earlierRecords(options.outDir, own);
+        // Each form is written as soon as it is read, and its pages let go.
+        for await (const { result: read, pages } of forms) {
+          const requested = read.document.id;
+          read.document.id = claims.claim(requested, file);
+          const before = earlier.get(read.document.id);
+          const result = before && sameInputs(before, read.document.sha256, options) ? carryReviewedFields(read, before) : read;
           await writeJsonAtomic(path.join(options.outDir, documentJsonName(result.document.id)), result);
           await writeReviewCrops(options.outDir, result, pages);
           results.push(result);
-          fileLines.push(okLine(result));
+          fileLines.push(withRequestedId(okLine(result), requested));
         }
       } catch (err) {
         if (err instanceof FormgleanError && err.exitCode === 2) throw err;
         const message = err instanceof FormgleanError ? oneLine(err) : `${file}: ${oneLine(err)}`;
-        fileLines.push(failedLine(id, file, message));
+        fileLines.push(failedLine(claims.claim(stem, file), file, message));
       }
     }
+    await appendJournal(options.outDir, { path: file, lines: fileLines });
     lines.push(...fileLines);
-    summary = await writeBatchOutputs(options.outDir, lines);
     for (const line of fileLines) options.onDocument?.({ index, total: files.length, file, line, reused: reused !== null });
   }
-  await writeReviewQueue(options.outDir, results);
-  return { summary, lines, results };
+
+  const skippedLines = skipped.map((s) => skippedLine(s.path, s.reason));
+  const folderLines = mergeLines(previous, [...lines, ...skippedLines]);
+  const folder = await writeIndex(options.outDir, folderLines);
+  const kept = await Promise.all(
+    folderLines
+      .filter((l) => l.ok && l.json && !inRun.has(l.path))
+      .map((l) => readResultsRecord(path.join(options.outDir, l.json as string)).catch(() => null)),
+  );
+  await writeReviewQueue(options.outDir, [...results, ...kept.filter((r): r is DocumentResult => r !== null)]);
+  return { summary: summarize([...lines, ...skippedLines]), folder, lines: [...lines, ...skippedLines], results };
 }

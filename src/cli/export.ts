@@ -1,11 +1,12 @@
 import path from 'node:path';
 import type { Command } from 'commander';
 import { Option } from 'commander';
-import { configError } from '../errors.js';
+import { configError, printable } from '../errors.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { RecordTable } from '../review/export-table.js';
 import { recordsCsv, recordsJsonl, recordTable, recordTablesByLayout } from '../review/export-table.js';
 import { readResultsFolder } from '../review/result-store.js';
+import { isFailed } from '../results/results-line.js';
 
 interface ExportOptions {
   results: string;
@@ -45,7 +46,7 @@ export function registerExportCommand(program: Command): void {
       if (chosen.length > 1 && !opts.out)
         throw configError(opts.results, `documents of ${chosen.length} layouts (${chosen.join(', ')}): give --schema NAME, or --out FILE for one file per layout`);
       const text = (t: RecordTable) => (opts.format === 'jsonl' ? recordsJsonl(t) : recordsCsv(t, { formulaGuard: opts.formulaGuard, bom: opts.bom ?? false }));
-      const failed = folder.lines.filter((l) => !l.ok).length;
+      const failed = folder.lines.filter(isFailed).length;
       if (failed > 0) process.stderr.write(`${failed} failed document(s) have no record and are not exported\n`);
       if (!opts.out) {
         // One layout (or none): the table to standard output; with no documents, an empty table.
@@ -57,7 +58,7 @@ export function registerExportCommand(program: Command): void {
         const t = tables.get(layout)!;
         const file = chosen.length > 1 ? layoutFile(opts.out, layout) : opts.out;
         await writeFileAtomic(file, text(t));
-        process.stderr.write(`wrote ${t.rows.length} record(s) of layout ${layout} to ${file}\n`);
+        process.stderr.write(`wrote ${t.rows.length} record(s) of layout ${printable(layout)} to ${printable(file)}\n`);
       }
     });
 }

@@ -3,7 +3,7 @@ import path from 'node:path';
 import type { Command } from 'commander';
 import { runBatch } from '../batch/run-batch.js';
 import { loadDetector } from '../detect/onnx-detector.js';
-import { configError } from '../errors.js';
+import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
@@ -74,11 +74,11 @@ export function registerExtractCommand(program: Command): void {
           dropout: opts.dropout,
           onDocument: (e) => {
             if (opts.quiet) return;
-            const name = path.relative(process.cwd(), e.file) || e.file;
+            const name = printable(path.relative(process.cwd(), e.file) || e.file);
             const l = e.line;
             const what = l.ok
               ? `${(l.counts?.accepted ?? 0)} accepted, ${(l.counts?.review ?? 0) + (l.counts?.invalid ?? 0) + (l.counts?.missing ?? 0)} to review${e.reused ? ' (unchanged, kept)' : ''} in ${l.seconds?.toFixed(1)} s`
-              : `FAILED: ${l.error}`;
+              : `FAILED: ${printable(l.error ?? '')}`;
             process.stderr.write(`[${e.index + 1}/${e.total}] ${name}: ${what}\n`);
           },
         });
@@ -87,8 +87,14 @@ export function registerExtractCommand(program: Command): void {
           `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
             `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
             `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
-            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${opts.out}\n`,
+            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${printable(opts.out)}\n`,
         );
+        // Inputs found in folders but not tried are listed in results.jsonl and summary.json with their reasons.
+        const skipped = report.lines.filter((l) => l.skipped !== undefined);
+        if (skipped.length > 0) {
+          process.stderr.write(`${skipped.length} input(s) skipped:\n`);
+          for (const l of skipped) process.stderr.write(`  ${printable(path.relative(process.cwd(), l.path) || l.path)}: ${printable(l.skipped ?? '')}\n`);
+        }
         if (s.documents.failed > 0) process.exitCode = 1;
       } finally {
         await detector.close();

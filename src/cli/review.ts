@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { configError } from '../errors.js';
+import { configError, printable } from '../errors.js';
 import { applyReviewQueue, type ApplyReport } from '../review/apply.js';
 import { queuePath } from '../review/layout.js';
 import { startReviewPage } from '../review/page/server.js';
@@ -17,10 +17,10 @@ function printApplyReport(queue: string, r: ApplyReport): void {
       `${r.alreadyApplied} already applied; ${r.unanswered} row(s) without an answer\n`,
   );
   if (r.auditRecovered > 0) process.stdout.write(`audit: ${r.auditRecovered} entry(ies) recovered from an earlier run that was cut off\n`);
-  for (const s of r.changedSchemas) process.stderr.write(`warning: ${s}: schema changed since extraction; corrections were checked with the current file\n`);
-  if (r.extraColumns.length > 0) process.stdout.write(`ignored column(s): ${r.extraColumns.join(', ')}\n`);
+  for (const s of r.changedSchemas) process.stderr.write(`warning: ${printable(s)}: schema changed since extraction; corrections were checked with the current file\n`);
+  if (r.extraColumns.length > 0) process.stdout.write(`ignored column(s): ${printable(r.extraColumns.join(', '))}\n`);
   // One line per refused row: the queue file and line, never the field's value.
-  for (const p of r.problems) process.stderr.write(`${queue}:${p.line}: ${p.message}\n`);
+  for (const p of r.problems) process.stderr.write(`${printable(queue)}:${p.line}: ${printable(p.message)}\n`);
   if (r.problems.length > 0) process.stderr.write(`${r.problems.length} row(s) not applied\n`);
 }
 
@@ -66,7 +66,7 @@ export function registerReviewCommand(program: Command): void {
     .action(async (opts: { results: string; port: string; reviewer?: string }) => {
       const page = await startReviewPage({ resultsDir: opts.results, port: port(opts.port), reviewer: opts.reviewer });
       // The address holds the page's secret: print it for the person at this terminal only.
-      process.stdout.write(`review page for ${opts.results} (this computer only):\n  ${page.url}\nopen it in a browser; Ctrl+C stops the page, every answer is already saved\n`);
+      process.stdout.write(`review page for ${printable(opts.results)} (this computer only):\n  ${page.url}\nopen it in a browser; Ctrl+C stops the page, every answer is already saved\n`);
       await new Promise<void>((resolve) => {
         const stop = () => void page.close().then(resolve);
         process.once('SIGINT', stop);
@@ -95,7 +95,7 @@ export function registerReviewCommand(program: Command): void {
       const results = folder.documents.map((d) => d.result);
       await writeReviewQueue(opts.results, results);
       const rows = results.reduce((n, r) => n + r.fields.filter((f) => isPending(f.status)).length, 0);
-      process.stdout.write(`${queuePath(opts.results)}: ${rows} row(s) from ${results.length} document(s)\n`);
+      process.stdout.write(`${printable(queuePath(opts.results))}: ${rows} row(s) from ${results.length} document(s)\n`);
     });
 
   review

@@ -2,8 +2,10 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { glob } from 'tinyglobby';
 import { z } from 'zod';
-import { readResultsLines, RESULTS_FILE } from '../batch/sinks.js';
-import { configError, oneLine } from '../errors.js';
+import { readIndex } from '../results/index-read.js';
+import { RESULTS_FILE } from '../results/layout.js';
+import { isFailed } from '../results/results-line.js';
+import { configError } from '../errors.js';
 import { formatJsonPath } from '../schema/load.js';
 import { DocumentResult } from '../result/document.js';
 
@@ -127,13 +129,8 @@ export async function loadResults(dir: string): Promise<Map<string, ResultEntry>
 export async function loadFailedStems(dir: string): Promise<Set<string>> {
   const out = new Set<string>();
   for (const file of await jsonFiles(dir, [RESULTS_FILE, `*/${RESULTS_FILE}`])) {
-    let lines;
-    try {
-      lines = await readResultsLines(path.dirname(file));
-    } catch (err) {
-      throw configError(file, `not a readable results list (${oneLine(err).replace(`${file}: `, '')})`);
-    }
-    for (const l of lines) if (!l.ok) out.add(fileStem(l.path));
+    const { lines } = await readIndex(path.dirname(file));
+    for (const l of lines) if (isFailed(l)) out.add(fileStem(l.path));
   }
   return out;
 }

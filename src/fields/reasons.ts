@@ -31,6 +31,11 @@ export const REASONS = {
     meaning: 'The page fits none of the given schemas well; fields were read where the best one puts them.',
     check: 'Whether the form is the layout named; if not, extract it again with its own schema.',
   },
+  page_not_aligned: {
+    effect: 'review',
+    meaning: 'The page could not be aligned to its layout (no fit, or a poor one), so its fields were not read: their places would be guesses.',
+    check: 'The scan: a page of another form, a badly skewed or cut-off scan; type the values from the page.',
+  },
   page_missing: {
     effect: 'review',
     meaning: 'The document has fewer pages than the schema; the field\'s page is not there.',

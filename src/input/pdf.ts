@@ -1,7 +1,8 @@
-import { PDFiumLibrary } from '@hyzyla/pdfium';
+import { PDFiumLibrary, type PDFiumDocument } from '@hyzyla/pdfium';
 import { documentError } from '../errors.js';
 import type { GrayImage } from '../page/raster.js';
-import type { DecodeLimits } from './decode.js';
+import type { DecodeLimits, PageSource } from './limits.js';
+import { checkPageSize, checkTotalPixels } from './limits.js';
 
 /**
  * Scanned PDFs are rendered at 200 DPI, the resolution the demo reference layouts are drawn at and a usual office
@@ -17,37 +18,43 @@ export function isPdf(bytes: Uint8Array): boolean {
 // PDFium (WebAssembly, in the package: nothing is downloaded) is started once per process.
 let library: Promise<PDFiumLibrary> | null = null;
 
-/** Render every page of a PDF to a grayscale raster, within the page and pixel limits. */
-export async function renderPdfPages(bytes: Buffer, source: string, limits: DecodeLimits, dpi = PDF_DPI): Promise<GrayImage[]> {
+/**
+ * Open a PDF for page-at-a-time rendering. Every page's rendered size is checked against the page and total pixel
+ * limits from the page dictionaries before any page is rendered.
+ */
+export async function openPdf(bytes: Buffer, source: string, limits: DecodeLimits, dpi = PDF_DPI): Promise<PageSource> {
   library ??= PDFiumLibrary.init();
   const lib = await library;
-  let doc;
+  let doc: PDFiumDocument;
   try {
     doc = await lib.loadDocument(bytes);
   } catch {
     throw documentError(source, 'not a readable PDF (corrupt, truncated or encrypted)');
   }
+  const scale = dpi / 72; // PDF user space is in points, 72 to the inch (ISO 32000-1 §8.3.2.3)
   try {
     const count = doc.getPageCount();
     if (count === 0) throw documentError(source, 'PDF has no pages');
     if (count > limits.maxPages) throw documentError(source, `document has ${count} pages, over the ${limits.maxPages}-page limit`);
-    const scale = dpi / 72; // PDF user space is in points, 72 to the inch (ISO 32000-1 §8.3.2.3)
-    const pages: GrayImage[] = [];
-    for (const page of doc.pages()) {
+    const sizes = [...doc.pages()].map((page) => {
       const { originalWidth, originalHeight } = page.getOriginalSize();
-      const w = Math.round(originalWidth * scale);
-      const h = Math.round(originalHeight * scale);
-      if (w * h > limits.maxPixels) {
-        throw documentError(source, `page ${page.number + 1} renders to ${w}x${h} = ${w * h} pixels, over the ${limits.maxPixels}-pixel limit`);
-      }
-      const r = await page.render({ scale, colorSpace: 'Gray', render: 'bitmap' } as Parameters<typeof page.render>[0]);
-      if (r.data.length !== r.width * r.height) throw documentError(source, `page ${page.number + 1} did not render as a grayscale image`);
-      pages.push({ width: r.width, height: r.height, data: new Uint8Array(r.data) });
-    }
-    return pages;
-  } finally {
+      return { w: Math.round(originalWidth * scale), h: Math.round(originalHeight * scale) };
+    });
+    sizes.forEach(({ w, h }, i) => checkPageSize(source, `page ${i + 1} renders to`, w, h, limits));
+    checkTotalPixels(source, sizes.reduce((a, s) => a + s.w * s.h, 0), limits);
+  } catch (err) {
     doc.destroy();
+    throw err;
   }
+  return {
+    pageCount: doc.getPageCount(),
+    async page(index: number): Promise<GrayImage> {
+      const r = await doc.getPage(index).render({ scale, colorSpace: 'Gray', render: 'bitmap' } as Parameters<ReturnType<PDFiumDocument['getPage']>['render']>[0]);
+      if (r.data.length !== r.width * r.height) throw documentError(source, `page ${index + 1} did not render as a grayscale image`);
+      return { width: r.width, height: r.height, data: new Uint8Array(r.data) };
+    },
+    close: () => doc.destroy(),
+  };
 }
 
 /**

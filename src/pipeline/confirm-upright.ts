@@ -15,11 +15,13 @@ export interface DetectedPage {
  * orientation (page/orientation.ts) reads ascenders; on a form printed in capitals it has nothing to read and can
  * turn an upright page over (DD Form 293, upright, was turned 180° by the text cue alone; see
  * test/pipeline/confirm-upright.test.ts). Registration with the blank does not read text. A page that is turned is
- * detected again. Returns the indices (within `pages`) that were turned.
+ * detected again. `pages[p]` is the form's page p; those before `from` are taken as settled. Returns the indices
+ * (within `pages`) that were turned.
  */
-export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector): Promise<number[]> {
+export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector, from = 0): Promise<number[]> {
   const turned: number[] = [];
   for (const [p, page] of pages.entries()) {
+    if (p < from) continue;
     const reference = await referencePageImage(loaded, p);
     if (!reference) continue;
     const check = confirmHalfTurn(page.normalized, reference);

@@ -2,9 +2,10 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { Detection, Detector } from '../detect/types.js';
 import { legibilityFactors } from '../fields/legibility.js';
+import type { ReasonCode } from '../fields/reasons.js';
 import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
-import { decodeDocument, DEFAULT_LIMITS } from '../input/decode.js';
+import { DEFAULT_LIMITS, openDocument } from '../input/decode.js';
 import { DEFAULT_LOCATE, locateFields, type LocatedField } from '../locate/locate-fields.js';
 import type { Alignment } from '../page/alignment.js';
 import { dropoutForm } from '../page/dropout.js';
@@ -14,7 +15,10 @@ import { normalizePage } from '../page/normalize.js';
 import type { GrayImage } from '../page/raster.js';
 import type { DocumentResult, FieldResult, PageResult } from '../result/document.js';
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
+import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
+import { documentError } from '../errors.js';
+import { alignmentProblem, pageProblem } from './page-gate.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
@@ -63,43 +67,59 @@ interface PreparedPage {
 }
 
 /**
- * One file through every stage: decode, normalize, detect, choose layout, align, locate, read, score. A file holds one
- * form, or a stack of forms scanned together (a multi-page TIFF of single-page forms): after each form's first page
- * the layout says how many pages the form takes, and the next page starts the next form.
+ * One file through every stage: decode, gate, normalize, detect, choose layout, align, locate, read, score. A file
+ * holds one form, or a stack of forms scanned together (a multi-page TIFF of single-page forms): after each form's
+ * first page the layout says how many pages the form takes, and the next page starts the next form. Pages are
+ * decoded one at a time and each form is handed on when read, so a long stack holds one form's pages at a time.
+ * A page nothing can be read from (blank, black, too small: src/pipeline/page-gate.ts) fails the file with the reason.
  */
-export async function extractFile(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument[]> {
+export async function* extractForms(input: string | Buffer, options: ExtractOptions): AsyncGenerator<ExtractedDocument> {
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
-  const decoded = await decodeDocument(input, options.limits ?? DEFAULT_LIMITS);
-  const prepared: PreparedPage[] = [];
-  for (const [index, source] of decoded.pages.entries()) {
-    const started = performance.now();
-    const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
-    prepared.push({ index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started });
-  }
-  const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : decoded.sha256.slice(0, 12));
-  const forms: ExtractedDocument[] = [];
-  for (let first = 0; first < prepared.length; ) {
-    const started = performance.now();
-    let choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
-    if (options.orientation ?? true) {
-      const form = prepared.slice(first, first + choice.schema.schema.pages.length);
-      const turned = await confirmUpright(form, choice.schema, options.detector);
-      if (turned.includes(0)) choice = await chooseLayout(schemas, prepared[first].normalized.image, prepared[first].detections);
+  const doc = await openDocument(input, options.limits ?? DEFAULT_LIMITS);
+  try {
+    const prepare = async (index: number): Promise<PreparedPage> => {
+      const source = await doc.page(index);
+      const problem = pageProblem(source);
+      if (problem) throw documentError(doc.source, `page ${index + 1} ${problem}`);
+      const started = performance.now();
+      const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
+      return { index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started };
+    };
+    const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : doc.sha256.slice(0, 12));
+    for (let first = 0; first < doc.pageCount; ) {
+      const head = await prepare(first);
+      const started = performance.now();
+      let choice = await chooseLayout(schemas, head.normalized.image, head.detections);
+      // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
+      // chooses its layout again.
+      const upright = options.orientation ?? true;
+      if (upright && (await confirmUpright([head], choice.schema, options.detector)).length > 0)
+        choice = await chooseLayout(schemas, head.normalized.image, head.detections);
+      const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
+      const formPages = [head];
+      for (let i = 1; i < count; i++) formPages.push(await prepare(first + i));
+      if (upright && count > 1) await confirmUpright(formPages, choice.schema, options.detector, 1);
+      const stacked = first > 0 || first + count < doc.pageCount;
+      const id = stacked ? `${stem}.p${first + 1}` : stem;
+      const result = await extractForm(formPages, choice, schemas.length, {
+        ...options,
+        id,
+        source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
+        sha256: doc.sha256,
+      });
+      result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
+      yield { result, pages: formPages.map((p) => p.source) };
+      first += count;
     }
-    const count = Math.min(choice.schema.schema.pages.length, prepared.length - first);
-    const formPages = prepared.slice(first, first + count);
-    const stacked = first > 0 || first + count < prepared.length;
-    const id = stacked ? `${stem}.p${first + 1}` : stem;
-    const result = await extractForm(formPages, choice, schemas.length, {
-      ...options,
-      id,
-      source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
-      sha256: decoded.sha256,
-    });
-    result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
-    forms.push({ result, pages: formPages.map((p) => p.source) });
-    first += count;
+  } finally {
+    doc.close();
   }
+}
+
+/** Every form of a file (see extractForms), read in full before returning. */
+export async function extractFile(input: string | Buffer, options: ExtractOptions): Promise<ExtractedDocument[]> {
+  const forms: ExtractedDocument[] = [];
+  for await (const form of extractForms(input, options)) forms.push(form);
   return forms;
 }
 
@@ -125,6 +145,7 @@ async function extractForm(
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
+    const misfit = alignmentProblem(alignment) !== null;
     pages.push({
       index: p,
       ...(index !== p ? { filePage: index } : {}),
@@ -137,6 +158,13 @@ async function extractForm(
     });
     const toSource = invertAffine(normalized.transform);
     const pageFields = schema.fields.filter((f) => f.page === p);
+    // The page gate's second half: a page that does not fit its layout is not read (its boxes would be guesses,
+    // some off the page); each of its fields goes to review.
+    if (misfit) {
+      const why: ReasonCode[] = choice.status === 'unknown_layout' ? ['unknown_layout', 'page_not_aligned'] : ['page_not_aligned'];
+      fields.push(...pageFields.map((f) => unreadField(f, 'review', ...why)));
+      continue;
+    }
     const located = locateFields(pageFields, detections, alignment.refToPage, {
       ...DEFAULT_LOCATE,
       preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
@@ -171,21 +199,7 @@ async function extractForm(
   }
 
   // Fields on pages the file does not have (a form cut short).
-  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) {
-    fields.push({
-      name: f.name,
-      type: f.type,
-      page: f.page,
-      value: null,
-      raw: null,
-      status: f.required ? 'missing' : 'review',
-      confidence: 0,
-      reasons: ['page_missing'],
-      box: null,
-      source: 'none',
-      scores: {},
-    });
-  }
+  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) fields.push(unreadField(f, f.required ? 'missing' : 'review', 'page_missing'));
   const order = new Map(schema.fields.map((f, i) => [f.name, i]));
   fields.sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
 
@@ -203,4 +217,9 @@ async function extractForm(
     counts: countStatuses(fields),
     seconds: 0,
   };
+}
+
+/** A field that was not read at all (its page is missing, or does not fit the layout): no value, no box. */
+function unreadField(f: FieldSpec, status: 'missing' | 'review', ...reasons: ReasonCode[]): FieldResult {
+  return { name: f.name, type: f.type, page: f.page, value: null, raw: null, status, confidence: 0, reasons, box: null, source: 'none', scores: {} };
 }

@@ -1,6 +1,6 @@
 import type { FieldValue } from '../fields/types.js';
 import type { DocumentResult, FieldResult } from '../result/document.js';
-import { isEmptyCorrection, readConfirm } from './answers.js';
+import { isEmptyCorrection, readConfirm, typedCellProblem } from './answers.js';
 import type { AuditEntry } from './audit.js';
 import type { FieldTyping } from './field-options.js';
 import { isPending } from './pending.js';
@@ -209,6 +209,12 @@ export function planApply(input: PlanInput): ApplyPlan {
   for (const a of input.answers) {
     const { line, rowId } = a;
     const refuse = (message: string) => plan.problems.push({ line, rowId, message });
+    // Length and control-character limits, for the CSV queue and the review page alike.
+    const cellProblem = (a.action.kind === 'correct' ? typedCellProblem('correction', a.action.text) : null) ?? typedCellProblem('note', a.note ?? '');
+    if (cellProblem) {
+      refuse(cellProblem);
+      continue;
+    }
     const target = byRowId.get(rowId);
     if (!target) {
       refuse(`unknown row id ${rowId}: no document in the results folder has this field`);

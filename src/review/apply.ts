@@ -12,6 +12,7 @@ import type { FieldTyping } from './field-options.js';
 import { FieldOptionsSource } from './field-options.js';
 import { auditPath, reviewDir } from './layout.js';
 import { readReviewQueue } from './queue-read.js';
+import { removeOrphanTemps } from '../results/temp-files.js';
 import { refreshResultsFiles } from './results-refresh.js';
 import { readResultsFolder, type StoredResult } from './result-store.js';
 import { updatesByDocument, recoveredEntries } from './apply-audit.js';
@@ -89,6 +90,7 @@ export async function applyAnswers(
   options: ApplyOptions = {},
 ): Promise<AnswersReport> {
   return withApplyLock(reviewDir(resultsDir), async () => {
+    await removeOrphanTemps(resultsDir);
     const folder = await readResultsFolder(resultsDir);
     const fieldOptions = new FieldOptionsSource(resultsDir);
     const typing = await typingsFor(fieldOptions, folder.documents);
@@ -117,7 +119,7 @@ export async function applyAnswers(
     const recovered = recoveredEntries(plan.alreadyApplied, current, await readAudit(audit), source.queue);
     await appendAudit(audit, [...plan.updates.map((u: FieldUpdate) => u.entry), ...recovered]);
     const results = [...current.values()].map((d) => d.result);
-    await refreshResultsFiles(resultsDir, folder.lines, results);
+    await refreshResultsFiles(resultsDir, folder.lines, results, folder.needsWrite);
 
     const documents = folder.documents.map((d) => d.result);
     return {

@@ -72,6 +72,8 @@ export function recordsCsv(table: RecordTable, options: { formulaGuard: boolean;
   };
   return stringify(
     table.rows.map((r) => table.columns.map((c) => cell(r[c]))),
-    { header: true, columns: table.columns, bom: options.bom, record_delimiter: 'windows' },
+    // A lone LF or CR inside a cell ends the row for most readers unless the cell is quoted (RFC 4180 §2.6); by
+    // itself csv-stringify quotes only cells holding the whole record delimiter (CRLF here), so ask for the rest.
+    { header: true, columns: table.columns, bom: options.bom, record_delimiter: 'windows', quoted_match: /[\r\n]/ },
   );
 }

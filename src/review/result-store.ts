@@ -1,8 +1,10 @@
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
-import { readResultsLines, RESULTS_FILE, type ResultsLine } from '../batch/sinks.js';
 import { configError, documentError } from '../errors.js';
 import { DocumentResult } from '../result/document.js';
+import { readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
+import { RESULTS_FILE } from '../results/layout.js';
+import type { ResultsLine } from '../results/results-line.js';
 
 /** A document result as stored in a results folder: the validated view, and the raw JSON it is written back from. */
 export interface StoredResult {
@@ -17,6 +19,8 @@ export interface ResultsFolder {
   dir: string;
   lines: ResultsLine[];
   documents: StoredResult[];
+  /** The index was rebuilt or extended from the journal on reading: writing it back completes it. */
+  needsWrite: boolean;
 }
 
 export async function readStoredResult(file: string): Promise<StoredResult> {
@@ -40,21 +44,19 @@ export async function readStoredResult(file: string): Promise<StoredResult> {
   return { file, result: parsed.data, raw: raw as Record<string, unknown> };
 }
 
-/** The processed documents of an extract output folder, found through its results.jsonl. */
-export async function readResultsFolder(dir: string): Promise<ResultsFolder> {
-  let lines: ResultsLine[];
+/** The processed documents of an extract output folder, found through its index (src/results/index-read.ts). */
+export async function readResultsFolder(dir: string, warn: Warn = warnOnStderr): Promise<ResultsFolder> {
+  let index;
   try {
-    lines = await readResultsLines(dir);
+    index = await readIndex(dir, warn);
   } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') throw configError(path.join(dir, RESULTS_FILE), 'not found; --results must name an extract output folder');
-    if (err instanceof SyntaxError) throw configError(path.join(dir, RESULTS_FILE), `not valid JSON lines (${err.message})`);
-    throw configError(undefined, (err as Error).message);
+    throw configError(path.join(dir, RESULTS_FILE), `cannot read the results folder (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
   }
+  if (index.empty) throw configError(path.join(dir, RESULTS_FILE), 'not found; --results must name an extract output folder');
   const documents: StoredResult[] = [];
-  for (const line of lines) {
+  for (const line of index.lines) {
     if (!line.ok || !line.json) continue;
     documents.push(await readStoredResult(path.resolve(dir, line.json)));
   }
-  return { dir, lines, documents };
+  return { dir, lines: index.lines, documents, needsWrite: index.needsWrite };
 }

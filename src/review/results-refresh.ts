@@ -1,5 +1,6 @@
-import { okLine, writeBatchOutputs, type ResultsLine } from '../batch/sinks.js';
 import type { DocumentResult } from '../result/document.js';
+import { writeIndex } from '../results/index-write.js';
+import { okLine, withRequestedId, type ResultsLine } from '../results/results-line.js';
 
 function sameCounts(a: ResultsLine['counts'], b: DocumentResult['counts']): boolean {
   return JSON.stringify(a ?? {}) === JSON.stringify(b);
@@ -17,15 +18,18 @@ export function refreshedLines(lines: readonly ResultsLine[], results: readonly 
     const r = l.ok ? byId.get(l.document) : undefined;
     if (!r || sameCounts(l.counts, r.counts)) return l;
     changed = true;
-    return okLine(r);
+    return withRequestedId(okLine(r), l.requestedId);
   });
   return changed ? out : null;
 }
 
-/** Rewrite results.jsonl and summary.json (atomically, with the batch code's own writer) when counts moved. */
-export async function refreshResultsFiles(dir: string, lines: readonly ResultsLine[], results: readonly DocumentResult[]): Promise<boolean> {
-  const next = refreshedLines(lines, results);
+/**
+ * Rewrite results.jsonl and summary.json (atomically, with the results folder's own writer) when counts moved, or
+ * when the index read was rebuilt or came partly from a journal (`force`).
+ */
+export async function refreshResultsFiles(dir: string, lines: readonly ResultsLine[], results: readonly DocumentResult[], force = false): Promise<boolean> {
+  const next = refreshedLines(lines, results) ?? (force ? [...lines] : null);
   if (next === null) return false;
-  await writeBatchOutputs(dir, next);
+  await writeIndex(dir, next);
   return true;
 }

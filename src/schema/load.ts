@@ -3,7 +3,7 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { parseDocument } from 'yaml';
 import type { z } from 'zod';
-import { configError } from '../errors.js';
+import { configError, oneLine } from '../errors.js';
 import { FormSchema } from './definition.js';
 import { checkSchemaConsistency } from './consistency.js';
 
@@ -52,7 +52,13 @@ export function parseSchemaText(text: string, file: string): FormSchema {
     const line = e.linePos?.[0]?.line;
     throw configError(file, `not valid YAML/JSON${line ? ` at line ${line}` : ''}: ${e.message.split('\n')[0]}`);
   }
-  const input: unknown = doc.toJS();
+  let input: unknown;
+  try {
+    input = doc.toJS();
+  } catch (err) {
+    // The yaml library refuses alias expansion past its limit ("billion laughs"): a file error like any other.
+    throw configError(file, `not valid YAML/JSON: ${oneLine(err)}`);
+  }
   if (input === null || typeof input !== 'object' || Array.isArray(input)) {
     throw configError(file, 'expected a schema object with form, pages and fields');
   }

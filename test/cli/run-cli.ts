@@ -25,3 +25,26 @@ export function runCli(args: readonly string[], options: { cwd?: string; env?: N
     child.on('close', (code) => resolve({ code, stdout, stderr }));
   });
 }
+
+export interface StartedCli {
+  child: ReturnType<typeof spawn>;
+  /** Everything written to stderr so far. */
+  stderr(): string;
+  done: Promise<CliRun & { signal: NodeJS.Signals | null }>;
+}
+
+/** Start the real command line without waiting for it (node --import tsx: the pid is the one that writes). */
+export function startCli(args: readonly string[], options: { cwd?: string } = {}): StartedCli {
+  const child = spawn(process.execPath, ['--import', 'tsx', path.join(REPO, 'src/cli/main.ts'), ...args], {
+    cwd: options.cwd ?? REPO,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let stdout = '';
+  let stderr = '';
+  child.stdout.on('data', (d) => (stdout += d));
+  child.stderr.on('data', (d) => (stderr += d));
+  const done = new Promise<CliRun & { signal: NodeJS.Signals | null }>((resolve) =>
+    child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr })),
+  );
+  return { child, stderr: () => stderr, done };
+}
