@@ -167,7 +167,8 @@ export function documentIds(files: readonly string[]): Map<string, string> {
   const used = new Set<string>();
   for (const f of files) {
     const rel = path.relative(common || path.parse(f).root, f);
-    let id = rel.replace(/\.[^.\\/]+$/, '').replace(/[\\/]+/g, '__').replace(/[^A-Za-z0-9._-]+/g, '_');
+    // Letters and digits of any script stay (Müller stays Müller, not M_ller); NFC so one name gives one id.
+    let id = rel.normalize('NFC').replace(/\.[^.\\/]+$/, '').replace(/[\\/]+/g, '__').replace(/[^\p{L}\p{N}._-]+/gu, '_');
     if (isReservedId(id)) id = `${id}_doc`;
     let unique = id;
     for (let n = 2; used.has(unique.toLowerCase()); n++) unique = `${id}-${n}`;

@@ -16,6 +16,7 @@ import type { ResultsLine } from '../results/results-line.js';
 import { failedLine, okLine, skippedLine, withRequestedId } from '../results/results-line.js';
 import type { BatchSummary } from '../results/summary.js';
 import { summarize } from '../results/summary.js';
+import { recordedPath } from '../results/recorded-path.js';
 import { removeOrphanTemps } from '../results/temp-files.js';
 import { writeReviewCrops } from '../review/crops.js';
 import { writeReviewQueue } from '../review/queue-write.js';
@@ -148,19 +149,21 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   // A run cut off earlier left a journal (or a summary behind its index): fold it in before anything else.
   if (index.needsWrite) await writeIndex(options.outDir, index.lines);
   const previous = index.lines.filter((l) => l.skipped === undefined);
-  const inRun = new Set(files);
+  // Records and the index hold paths as recordedPath writes them; earlier indexes may hold absolute ones.
+  const inRun = new Set(files.flatMap((f) => [recordedPath(f), f]));
   const claims = new IdClaims(previous.filter((l) => !inRun.has(l.path)));
   const stems = documentIds(files);
   const lines: ResultsLine[] = [];
   const results: DocumentResult[] = [];
 
   for (const [index, file] of files.entries()) {
-    const own = previous.filter((l) => l.path === file);
+    const recorded = recordedPath(file);
+    const own = previous.filter((l) => l.path === recorded || l.path === file);
     const stem = previousStem(own) ?? (stems.get(file) as string);
     const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
     const fileLines: ResultsLine[] = [];
     if (reused) {
-      for (const r of reused) claims.claim(r.document.id, file);
+      for (const r of reused) claims.claim(r.document.id, recorded);
       results.push(...reused);
       fileLines.push(...reused.map(okLine));
     } else {
@@ -178,7 +181,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
         // Each form is written as soon as it is read, and its pages let go.
         for await (const { result: read, pages } of forms) {
           const requested = read.document.id;
-          read.document.id = claims.claim(requested, file);
+          read.document.id = claims.claim(requested, recorded);
           const before = earlier.get(read.document.id);
           const result = before && sameInputs(before, read.document.sha256, options) ? carryReviewedFields(read, before) : read;
           await writeJsonAtomic(path.join(options.outDir, documentJsonName(result.document.id)), result);
@@ -189,15 +192,15 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
       } catch (err) {
         if (err instanceof FormgleanError && err.exitCode === 2) throw err;
         const message = err instanceof FormgleanError ? oneLine(err) : `${file}: ${oneLine(err)}`;
-        fileLines.push(failedLine(claims.claim(stem, file), file, message));
+        fileLines.push(failedLine(claims.claim(stem, recorded), recorded, message));
       }
     }
-    await appendJournal(options.outDir, { path: file, lines: fileLines });
+    await appendJournal(options.outDir, { path: recorded, lines: fileLines });
     lines.push(...fileLines);
     for (const line of fileLines) options.onDocument?.({ index, total: files.length, file, line, reused: reused !== null });
   }
 
-  const skippedLines = skipped.map((s) => skippedLine(s.path, s.reason));
+  const skippedLines = skipped.map((s) => skippedLine(recordedPath(s.path), s.reason));
   const folderLines = mergeLines(previous, [...lines, ...skippedLines]);
   const folder = await writeIndex(options.outDir, folderLines);
   const kept = await Promise.all(

@@ -18,6 +18,7 @@ import { countStatuses, RESULT_FORMAT } from '../result/document.js';
 import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { documentError } from '../errors.js';
+import { recordedPath } from '../results/recorded-path.js';
 import { alignmentProblem, pageProblem } from './page-gate.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
@@ -104,7 +105,7 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       const result = await extractForm(formPages, choice, schemas.length, {
         ...options,
         id,
-        source: typeof input === 'string' ? path.resolve(input) : '<buffer>',
+        source: typeof input === 'string' ? recordedPath(input) : '<buffer>',
         sha256: doc.sha256,
       });
       result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;

@@ -12,6 +12,7 @@ import type { FieldTyping } from './field-options.js';
 import { FieldOptionsSource } from './field-options.js';
 import { auditPath, reviewDir } from './layout.js';
 import { readReviewQueue } from './queue-read.js';
+import { recordedPath } from '../results/recorded-path.js';
 import { removeOrphanTemps } from '../results/temp-files.js';
 import { refreshResultsFiles } from './results-refresh.js';
 import { readResultsFolder, type StoredResult } from './result-store.js';
@@ -141,7 +142,7 @@ export async function applyAnswers(
 export async function applyReviewQueue(queueFile: string, resultsDir: string, options: ApplyOptions = {}): Promise<ApplyReport> {
   const queue = await readReviewQueue(queueFile);
   const read = answersFromQueue(queue.entries);
-  const { documents: _documents, ...report } = await applyAnswers(resultsDir, read.answers, { queue: path.resolve(queueFile), via: 'queue' }, options);
+  const { documents: _documents, ...report } = await applyAnswers(resultsDir, read.answers, { queue: recordedPath(queueFile), via: 'queue' }, options);
   return {
     ...report,
     unanswered: read.unanswered,

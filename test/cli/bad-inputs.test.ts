@@ -133,8 +133,9 @@ describe('the bad-input corpus', () => {
     expect(lines['stack.p2.png'].document).toBe('stack.p2');
     const stack = all.filter((l) => l.path.endsWith('stack.tif')).map((l) => [l.document, l.requestedId]);
     expect(stack).toEqual([['stack.p1', undefined], ['stack.p2-2', 'stack.p2']]);
-    expect((await record('stack.p2.json')).document.path).toBe(path.join(corpus, 'stack.p2.png'));
-    expect((await record('stack.p2-2.json')).document.path).toBe(path.join(corpus, 'stack.tif'));
+    // Paths are recorded relative to the working folder the command ran in (the repository here).
+    expect((await record('stack.p2.json')).document.path).toBe(path.relative(REPO, path.join(corpus, 'stack.p2.png')));
+    expect((await record('stack.p2-2.json')).document.path).toBe(path.relative(REPO, path.join(corpus, 'stack.tif')));
     const summary = JSON.parse(await readFile(path.join(out, 'summary.json'), 'utf8'));
     expect(summary.documents).toEqual({ total: 6 + Object.keys(BAD).length, processed: 6, failed: Object.keys(BAD).length });
   });

@@ -1,7 +1,11 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 
 export const REPO = path.resolve(import.meta.dirname, '../..');
+
+/** tsx's loader by file URL, so a command run from another working folder still finds it. */
+export const TSX_LOADER = pathToFileURL(path.join(REPO, 'node_modules/tsx/dist/loader.mjs')).href;
 
 export interface CliRun {
   code: number | null;
@@ -12,7 +16,7 @@ export interface CliRun {
 /** Run the real command line (TypeScript sources through tsx) in a child process. */
 export function runCli(args: readonly string[], options: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): Promise<CliRun> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', path.join(REPO, 'src/cli/main.ts'), ...args], {
+    const child = spawn(process.execPath, ['--import', TSX_LOADER, path.join(REPO, 'src/cli/main.ts'), ...args], {
       cwd: options.cwd ?? REPO,
       env: { ...process.env, ...options.env },
       stdio: ['ignore', 'pipe', 'pipe'],
@@ -35,7 +39,7 @@ export interface StartedCli {
 
 /** Start the real command line without waiting for it (node --import tsx: the pid is the one that writes). */
 export function startCli(args: readonly string[], options: { cwd?: string } = {}): StartedCli {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join(REPO, 'src/cli/main.ts'), ...args], {
+  const child = spawn(process.execPath, ['--import', TSX_LOADER, path.join(REPO, 'src/cli/main.ts'), ...args], {
     cwd: options.cwd ?? REPO,
     stdio: ['ignore', 'pipe', 'pipe'],
   });

@@ -9,7 +9,7 @@ import { mkdtemp, readFile, readdir, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { REPO } from '../cli/run-cli.js';
+import { REPO, TSX_LOADER } from '../cli/run-cli.js';
 import { missingProgram, skipUnlessPresent } from '../support/requirements.js';
 
 let work: string;
@@ -30,7 +30,7 @@ async function listTree(dir: string): Promise<string[]> {
 async function runIsolated(name: string, args: string[], traceFile?: string): Promise<{ code: number | null; home: string; tmp: string; stderr: string }> {
   const home = await mkdtemp(path.join(work, `${name}-home-`));
   const tmp = await mkdtemp(path.join(work, `${name}-tmp-`));
-  const node = [process.execPath, '--import', 'tsx', path.join(REPO, 'src/cli/main.ts'), ...args];
+  const node = [process.execPath, '--import', TSX_LOADER, path.join(REPO, 'src/cli/main.ts'), ...args];
   // trace=%network: every socket, connect, sendto... call; DNS lookups open an AF_INET/AF_INET6 socket first.
   const argv = traceFile ? ['strace', '-f', '-qq', '-e', 'trace=%network', '-o', traceFile, ...node] : node;
   const env: NodeJS.ProcessEnv = { ...process.env, HOME: home, TMPDIR: tmp, TSX_DISABLE_CACHE: '1' };

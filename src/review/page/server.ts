@@ -4,6 +4,7 @@ import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { z } from 'zod';
 import { oneLine } from '../../errors.js';
+import { recordedPath } from '../../results/recorded-path.js';
 import { EMPTY_CORRECTION } from '../answers.js';
 import { applyAnswers, defaultReviewer } from '../apply.js';
 import { CROPS_DIR, queuePath, reviewDir } from '../layout.js';
@@ -97,7 +98,8 @@ export async function startReviewPage(options: ReviewPageOptions): Promise<Revie
   await buildPageView(options.resultsDir);
   const token = options.token ?? newPageToken();
   const reviewer = options.reviewer?.trim() || defaultReviewer();
-  const queueFile = path.resolve(queuePath(options.resultsDir));
+  // Recorded in the audit log as recordedPath writes it (no absolute path in the records).
+  const queueFile = recordedPath(queuePath(options.resultsDir));
   // Answers are applied one after another: the apply lock guards against other processes, this chain within one.
   let chain: Promise<unknown> = Promise.resolve();
   let port = 0;
