@@ -5,6 +5,7 @@ import type { Detector } from '../detect/types.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
 import { extractFile } from '../pipeline/extract-document.js';
+import type { DigitReader } from '../read/digit-reader.js';
 import type { DocumentResult } from '../result/document.js';
 import { DocumentResult as DocumentResultSchema } from '../result/document.js';
 import { writeReviewCrops } from '../review/crops.js';
@@ -26,6 +27,8 @@ export interface BatchOptions {
   orientation?: boolean;
   /** Read text from the page with the printed form subtracted (see ExtractOptions.dropout). */
   dropout?: boolean;
+  /** Digit reader for digit combs (see ExtractOptions.digitReader). */
+  digitReader?: DigitReader;
   today?: Date;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
@@ -108,6 +111,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
           deskew: options.deskew,
           orientation: options.orientation,
           dropout: options.dropout,
+          digitReader: options.digitReader,
           today: options.today,
         });
         for (const { result, pages } of forms) {

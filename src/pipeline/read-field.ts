@@ -5,6 +5,9 @@ import { cropField, type Padding } from '../read/crop.js';
 import { inkCoverage, measureMark } from '../read/marks.js';
 import { withoutPrintedLabel } from '../read/printed-label.js';
 import { readTextField } from '../read/read-text.js';
+import { readDigitComb } from '../read/digit-comb.js';
+import type { DigitReader } from '../read/digit-reader.js';
+import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
 import type { LocatedField } from '../locate/locate-fields.js';
 
 /** What reading one located field produced, before scoring. */
@@ -22,6 +25,8 @@ export interface ReadFieldContext {
   ocrPage?: GrayImage;
   padding: Padding;
   typeContext: FieldTypeContext;
+  /** Reads digit combs cell by cell beside Tesseract (digit-cross-check.ts); absent: Tesseract alone. */
+  digitReader?: DigitReader;
 }
 
 /**
@@ -61,10 +66,20 @@ export async function readLocatedField(
         return i.outcome === 'valid' || (i.outcome === 'empty' && !field.required);
       },
     });
-    const reading = withoutPrintedLabel(read.reading, field.label);
+    let reading = withoutPrintedLabel(read.reading, field.label);
     let interpretation = type.interpret(reading, options, ctx.typeContext);
     const details: Record<string, unknown> = { attempts: read.attempts };
     if (reading !== read.reading) details.droppedLabel = true;
+    if (ctx.digitReader && isDigitComb(field.class === 'comb_field', hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
+      // The scanned page, not the dropout one: cells are cut at the printed separators.
+      const digits = await readDigitComb(cropField(ctx.page, box, padding), ctx.digitReader);
+      if (digits) {
+        const firstAccepted = read.attempts[0]?.accepted ?? null;
+        const checked = crossCheckDigits({ reading, interpretation, firstAccepted }, digits, (r) => type.interpret(r, options, ctx.typeContext));
+        ({ reading, interpretation } = checked);
+        details.digitCells = checked.details;
+      }
+    }
     if (interpretation.outcome === 'empty') {
       // Nothing read is not the same as nothing written: look for pen strokes on the scanned page.
       const ink = inkCoverage(cropField(ctx.page, box, padding).image);
