@@ -78,8 +78,11 @@ for (let s = 0; s < stripCount; s++) {
   const grays = cellsOk ? cells.map((c) => cropGray(crop.image, c)) : [];
   const t0 = performance.now();
   const reads = cellsOk ? await reader.readCells(grays) : [];
-  readerMs += performance.now() - t0;
-  readerCells += grays.length;
+  // The first run warms onnxruntime up (allocations, kernel choice): not counted.
+  if (s > 0) {
+    readerMs += performance.now() - t0;
+    readerCells += grays.length;
+  }
   const clean = removeDashedRules(ruled);
   for (let i = 0; i < CELLS; i++) {
     const d = digits[i].digit;
