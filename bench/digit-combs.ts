@@ -14,6 +14,7 @@
  *    0.9), once with Tesseract alone and once with the digit reader beside it: exact share, accepted share and
  *    wrong among accepted.
  */
+import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import { getFieldType } from '../src/fields/registry.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
@@ -41,9 +42,20 @@ const { values: args } = parseArgs({
     seed: { type: 'string', default: '910001' },
     degrade: { type: 'string', default: 'light' },
     json: { type: 'string' },
+    'fit-from': { type: 'string' },
   },
 });
 const seed = Number(args.seed);
+
+/** Lowest confidence threshold with at most `maxError` wrong among the decidable fields at or above it (1.01: none). */
+function fitThreshold(items: { confidence: number; decidable: boolean; right: boolean }[], maxError: number): number {
+  const sorted = items.filter((x) => x.decidable).sort((a, b) => a.confidence - b.confidence);
+  for (let i = 0; i < sorted.length; i++) {
+    const above = sorted.slice(i);
+    if (above.filter((x) => !x.right).length <= maxError * above.length) return sorted[i].confidence;
+  }
+  return 1.01;
+}
 const degrade = args.degrade as DegradeLevel;
 const CELLS = 6;
 
@@ -60,6 +72,14 @@ const options = type.options.parse(spec.options ?? {});
 
 const perDigit = Array.from({ length: 10 }, () => ({ n: 0, reader: 0, tesseract: 0 }));
 let cutFailures = 0;
+/** Per arm, each field's confidence, whether a threshold decides it (valid, no ambiguity reason) and whether it is right. */
+const decided: Record<'ocr' | 'both', { confidence: number; decidable: boolean; right: boolean }[]> = { ocr: [], both: [] };
+/** Tesseract alone: each field's OCR factor and whether its value was right (for DOUBTFUL_OCR). */
+const ocrConfidences: { ocr: number; right: boolean; valid: boolean }[] = [];
+/** Each cell's top probability and whether the reader was right: for placing confidence thresholds (--json). */
+const cellConfidences: { confidence: number; right: boolean }[] = [];
+/** Each field's weakest digit probability (digit arm) and whether the value was right. */
+const fieldConfidences: { weakest: number; ocr: number; right: boolean; kept: string; agree: boolean; status: string }[] = [];
 let readerMs = 0;
 let readerCells = 0;
 const fields = { ocr: { exact: 0, accepted: 0, wrongAccepted: 0 }, both: { exact: 0, accepted: 0, wrongAccepted: 0, disagree: 0 } };
@@ -89,6 +109,7 @@ for (let s = 0; s < stripCount; s++) {
     perDigit[d].n++;
     if (!cellsOk) continue;
     if (reads[i].digit === String(d)) perDigit[d].reader++;
+    cellConfidences.push({ confidence: reads[i].confidence, right: reads[i].digit === String(d) });
     const img = cellImage(clean, cells[i]);
     const r = img ? await engine.read(img, { mode: 'char', allowed: '0123456789' }) : null;
     if (r && r.text.replace(/\s+/g, '').slice(0, 1) === String(d)) perDigit[d].tesseract++;
@@ -109,12 +130,30 @@ for (let s = 0; s < stripCount; s++) {
     const result = buildFieldResult(located, outcome, 0.75, IDENTITY);
     const f = fields[which];
     const right = result.value === truth;
+    decided[which].push({
+      confidence: result.confidence,
+      decidable: outcome.interpretation?.outcome === 'valid' && !result.reasons.some((r) => r.startsWith('ambiguous_')),
+      right,
+    });
     if (right) f.exact++;
     if (result.status === 'accepted') {
       f.accepted++;
       if (!right) f.wrongAccepted++;
     }
     if (which === 'both' && result.reasons.includes('ambiguous_digit_readers')) fields.both.disagree++;
+    if (which === 'ocr') ocrConfidences.push({ ocr: result.scores.ocr ?? 0, right, valid: outcome.interpretation?.outcome === 'valid' });
+    if (which === 'both') {
+      const dc = outcome.details.digitCells as { agree: boolean; kept: string } | undefined;
+      const words = outcome.reading?.kind === 'text' ? outcome.reading.words : [];
+      fieldConfidences.push({
+        weakest: words.length ? Math.min(...words.map((w) => w.confidence)) : 0,
+        ocr: result.scores.ocr ?? 0,
+        right,
+        kept: dc?.kept ?? '-',
+        agree: dc?.agree ?? false,
+        status: result.status,
+      });
+    }
   }
   if ((s + 1) % 25 === 0) process.stderr.write(`strip ${s + 1}/${stripCount}\n`);
 }
@@ -137,6 +176,19 @@ for (const which of ['ocr', 'both'] as const) {
       (which === 'both' ? `, disagreements ${fields.both.disagree}` : ''),
   );
 }
+if (args['fit-from']) {
+  // As `formglean calibrate` does for a schema: the lowest threshold at which the development strips' accepted fields
+  // are at most 1 % wrong, then measured here.
+  const dev = JSON.parse(await readFile(args['fit-from'], 'utf8')) as { decided: typeof decided };
+  for (const which of ['ocr', 'both'] as const) {
+    const t = fitThreshold(dev.decided[which], 0.01);
+    const acc = decided[which].filter((x) => x.decidable && x.confidence >= t);
+    lines.push(
+      `fields ${which === 'ocr' ? 'tesseract alone      ' : 'tesseract + digits   '} at threshold ${t.toFixed(3)} fitted on ${args['fit-from']}: ` +
+        `accepted ${pct(acc.length, stripCount)} %, wrong among accepted ${pct(acc.filter((x) => !x.right).length, acc.length)} % (${acc.filter((x) => !x.right).length}/${acc.length})`,
+    );
+  }
+}
 lines.push(`${((performance.now() - started) / 1000).toFixed(0)} s`);
 process.stdout.write(lines.join('\n') + '\n');
-if (args.json) await writeJsonAtomic(args.json, { seed, degrade, strips: stripCount, perDigit, cutFailures, msPerCell: readerMs / Math.max(1, readerCells), fields });
+if (args.json) await writeJsonAtomic(args.json, { seed, degrade, strips: stripCount, perDigit, cutFailures, msPerCell: readerMs / Math.max(1, readerCells), fields, decided, cellConfidences, fieldConfidences, ocrConfidences });

