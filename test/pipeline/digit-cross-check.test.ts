@@ -124,4 +124,26 @@ describe('digit combs through read-field (real pixels, real OCR, real model)', (
     // Tesseract reads handwriting poorly (bench/digit-combs.ts): among 8 six-digit fields it disagrees at least once.
     expect(disagreements).toBeGreaterThan(0);
   });
+
+  it('catches a confident Tesseract misread of handwriting: the field goes to review with the new reason', async () => {
+    // Strip 20 of the order above holds 9 9 9 7 7 0 (MNIST test digits); Tesseract reads it, confidently enough to
+    // pass as a printed read, as a different six-digit number (found by running the strips of this test).
+    const all: { digit: number; index: number }[] = [];
+    for (let d = 0; d <= 9; d++) for (const index of testIndices(d)) all.push({ digit: d, index });
+    const order = new Rng(77).shuffle(all);
+    const strip = await digitCombStrip(order.slice(120, 126), new Rng(920), 'light');
+    expect(strip.digits.map((d) => d!.digit).join('')).toBe('999770');
+    const spec = FieldSpec.parse({ name: 'member_no', type: 'text', class: 'comb_field', region: [0, 0, 1, 1], options: { pattern: '^[0-9]{6}$' } });
+    const located: LocatedField = {
+      field: spec,
+      parts: [{ key: spec.name, box: strip.box, source: 'detection', detectionScore: 0.9, expected: null, region: null, reasons: [] }],
+    };
+    const ctx = { page: strip.image, padding: 4, typeContext: { today: new Date() } };
+    const alone = buildFieldResult(located, await readLocatedField(located, textType, options, ctx), 0.75, IDENTITY);
+    const both = buildFieldResult(located, await readLocatedField(located, textType, options, { ...ctx, digitReader: reader }), 0.75, IDENTITY);
+    expect(alone.value).not.toBe('999770');
+    expect(both.status).toBe('review');
+    expect(both.reasons).toContain(DIGIT_READERS_DISAGREE);
+    expect(both.details?.digitCells).toMatchObject({ agree: false, kept: 'ocr' });
+  });
 });
