@@ -37,7 +37,12 @@ export function combCells(vertical: Uint8Array, width: number, inner: Box): Box[
   cuts.push(Math.min(width, Math.round(inner.x + inner.w)));
   cuts.sort((a, b) => a - b);
   const grid = fitEvenGrid(cuts);
-  if (grid) return grid.slice(1).map((c, i) => ({ x: grid[i], y: inner.y, w: c - grid[i], h: inner.h }));
+  if (grid) {
+    const boxes = grid.slice(1).map((c, i) => ({ x: grid[i], y: inner.y, w: c - grid[i], h: inner.h }));
+    const pitch = [...boxes.map((b) => b.w)].sort((a, b) => a - b)[Math.floor(boxes.length / 2)];
+    // A sliver between the located box's side and the printed border is no cell.
+    return boxes.filter((b, i) => (i > 0 && i < boxes.length - 1) || b.w >= 0.4 * pitch);
+  }
   const widths = cuts.slice(1).map((c, i) => c - cuts[i]).filter((w) => w > 0);
   if (widths.length === 0) return [];
   const median = [...widths].sort((a, b) => a - b)[Math.floor(widths.length / 2)];
@@ -60,11 +65,27 @@ export function combCells(vertical: Uint8Array, width: number, inner: Box): Box[
  * The 15 % and 70 % are common-practice tolerances for a printed grid, not tuned.
  */
 function fitEvenGrid(cuts: number[]): number[] | null {
-  const lo = cuts[0];
-  const hi = cuts[cuts.length - 1];
-  const inside = cuts.slice(1, -1);
+  // The located box rarely sits exactly on the printed comb: its outer borders may be the first and last separators
+  // found inside it rather than the box sides, so the grid is tried from either.
   let best: number[] | null = null;
   let bestMatched = 0;
+  const los = cuts.length > 3 ? [0, 1] : [0];
+  const his = cuts.length > 3 ? [cuts.length - 1, cuts.length - 2] : [cuts.length - 1];
+  for (const a of los) {
+    for (const b of his) {
+      const fit = evenGrid(cuts[a], cuts[b], cuts.filter((_, i) => i > a && i < b));
+      if (fit && fit.matched > bestMatched) {
+        bestMatched = fit.matched;
+        best = [...(a > 0 ? [cuts[0]] : []), ...fit.lines, ...(b < cuts.length - 1 ? [cuts[cuts.length - 1]] : [])];
+      }
+    }
+  }
+  return best;
+}
+
+/** The best even grid from lo to hi against the separators `inside` (see fitEvenGrid). */
+function evenGrid(lo: number, hi: number, inside: number[]): { lines: number[]; matched: number } | null {
+  let best: { lines: number[]; matched: number } | null = null;
   for (let n = 2; n <= Math.min(60, Math.floor((hi - lo) / 10)); n++) {
     const pitch = (hi - lo) / n;
     const tol = Math.max(3, 0.15 * pitch);
@@ -78,10 +99,7 @@ function fitEvenGrid(cuts: number[]): number[] | null {
       lines.push(Math.round(near ?? at));
     }
     lines.push(hi);
-    if (matched >= 0.7 * (n - 1) && matched > bestMatched) {
-      best = lines;
-      bestMatched = matched;
-    }
+    if (matched >= 0.7 * (n - 1) && matched > (best?.matched ?? 0)) best = { lines, matched };
   }
   return best;
 }
