@@ -76,7 +76,8 @@ function fitEvenGrid(cuts: number[]): number[] | null {
       const fit = evenGrid(cuts[a], cuts[b], cuts.filter((_, i) => i > a && i < b));
       if (fit && fit.matched > bestMatched) {
         bestMatched = fit.matched;
-        best = [...(a > 0 ? [cuts[0]] : []), ...fit.lines, ...(b < cuts.length - 1 ? [cuts[cuts.length - 1]] : [])];
+        // Fitted from a printed border: what lies between it and the box side is outside the comb.
+        best = fit.lines;
       }
     }
   }
