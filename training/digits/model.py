@@ -10,7 +10,7 @@ def _block(cin: int, cout: int) -> nn.Sequential:
     return nn.Sequential(nn.Conv2d(cin, cout, 3, padding=1, bias=False), nn.BatchNorm2d(cout), nn.ReLU(inplace=True))
 
 
-class CellNet(nn.Module):
+class DigitCellCNN(nn.Module):
     """Five 3 x 3 conv layers (16-32-48-64-64 channels, three 2 x 2 max pools), 4 x 4 x 64 features, one linear layer.
     About 4.6 M multiply-adds per cell and 96 k parameters."""
 
@@ -31,7 +31,7 @@ class CellNet(nn.Module):
 class Softmaxed(nn.Module):
     """Export wrapper: class probabilities instead of logits."""
 
-    def __init__(self, net: CellNet) -> None:
+    def __init__(self, net: DigitCellCNN) -> None:
         super().__init__()
         self.net = net
 

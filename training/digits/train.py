@@ -24,7 +24,7 @@ import torch  # noqa: E402
 import torch.nn.functional as F  # noqa: E402
 
 from cells import CLASS_NAMES, EMPTY, LETTERS, NOT_DIGIT, SYMBOLS, draw_marks, font_files, read_digits, render_cells, render_glyphs  # noqa: E402
-from model import CellNet  # noqa: E402
+from model import DigitCellCNN  # noqa: E402
 
 ROOT = os.path.abspath(os.path.join(os.path.dirname(__file__), "../.."))
 
@@ -66,7 +66,7 @@ def batch(banks: Banks, n: int, gen: torch.Generator, rng: np.random.Generator, 
     return x, torch.from_numpy(labels)
 
 
-def evaluate(net: CellNet, banks: Banks, seed: int, strength: float) -> dict:
+def evaluate(net: DigitCellCNN, banks: Banks, seed: int, strength: float) -> dict:
     """Accuracy on the test split, every digit once, rendered into cells at a fixed seed."""
     net.eval()
     gen = torch.Generator().manual_seed(seed)
@@ -112,7 +112,7 @@ def main(argv: list[str]) -> None:
     torch.manual_seed(args.seed)
     os.makedirs(args.out, exist_ok=True)
     banks = Banks(args.data, args.seed)
-    net = CellNet(len(CLASS_NAMES))
+    net = DigitCellCNN(len(CLASS_NAMES))
     if args.init:
         net.load_state_dict(torch.load(args.init, map_location="cpu"))
     opt = torch.optim.AdamW(net.parameters(), lr=args.lr, weight_decay=5e-4)
