@@ -3,8 +3,10 @@
  *
  *   const schema = await loadSchema('schemas/clinic-intake.yaml');
  *   const detector = await loadDetector(DEFAULT_MODEL_PATH);
- *   const { result } = await extractDocument('scan.png', { schema, detector });
- *   await runBatch({ inputs: ['scans/'], schema, detector, outDir: 'out' });
+ *   const digitReader = await DigitReader.open(); // optional: digit combs read cell by cell beside Tesseract
+ *   const { result } = await extractDocument('scan.png', { schema, detector, digitReader });
+ *   await runBatch({ inputs: ['scans/'], schemas: [schema], detector, digitReader, outDir: 'out' });
+ *   await digitReader.close();
  */
 export { loadSchema, parseSchemaText, referenceImagePath } from './schema/load.js';
 export { loadSchemas } from './schema/load-many.js';
@@ -15,6 +17,8 @@ export { formSchemaJsonSchema } from './schema/json-schema.js';
 export { loadDetector } from './detect/onnx-detector.js';
 export type { Detector, Detection, DetectOptions } from './detect/types.js';
 export { DEFAULT_MODEL_PATH } from './models.js';
+export { DigitReader, DEFAULT_DIGIT_MODEL_PATH } from './read/digit-reader.js';
+export type { CellRead } from './read/digit-reader.js';
 export { extractDocument, extractFile, extractForms } from './pipeline/extract-document.js';
 export type { ExtractOptions, ExtractedDocument } from './pipeline/extract-document.js';
 export { runBatch, runBatch as extractBatch } from './batch/run-batch.js';

@@ -7,6 +7,7 @@ import { configError, FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
 import { extractForms } from '../pipeline/extract-document.js';
 import { referencePageImage } from '../pipeline/reference-images.js';
+import type { DigitReader } from '../read/digit-reader.js';
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
 import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
@@ -37,6 +38,8 @@ export interface BatchOptions {
   orientation?: boolean;
   /** Read text from the page with the printed form subtracted (see ExtractOptions.dropout). */
   dropout?: boolean;
+  /** Digit reader for digit combs (see ExtractOptions.digitReader). */
+  digitReader?: DigitReader;
   today?: Date;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
@@ -175,6 +178,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
           deskew: options.deskew,
           orientation: options.orientation,
           dropout: options.dropout,
+          digitReader: options.digitReader,
           today: options.today,
         });
         const earlier = await earlierRecords(options.outDir, own);

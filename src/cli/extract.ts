@@ -6,6 +6,7 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
 import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
 
@@ -17,6 +18,8 @@ interface ExtractCliOptions {
   deskew: boolean;
   orientation: boolean;
   dropout?: boolean;
+  digitModel: string;
+  digitReader: boolean;
   threads?: string;
   quiet?: boolean;
 }
@@ -42,6 +45,8 @@ export function registerExtractCommand(program: Command): void {
     .option('--no-deskew', 'do not correct small page skew')
     .option('--no-orientation', 'do not look for pages turned by 90, 180 or 270 degrees')
     .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
+    .option('--digit-model <file>', 'ONNX digit reader for digit combs (read beside Tesseract, cell by cell)', DEFAULT_DIGIT_MODEL_PATH)
+    .option('--no-digit-reader', 'read digit combs with Tesseract alone')
     .option('--threads <n>', 'onnxruntime intra-op threads')
     .option('--quiet', 'print only the summary')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
@@ -62,6 +67,7 @@ export function registerExtractCommand(program: Command): void {
         const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
         if (problems.length > 0) throw configError(s.path, problems[0]);
       }
+      const digitReader = opts.digitReader ? await DigitReader.open(opts.digitModel) : undefined;
       try {
         const report = await runBatch({
           inputs,
@@ -72,6 +78,7 @@ export function registerExtractCommand(program: Command): void {
           deskew: opts.deskew,
           orientation: opts.orientation,
           dropout: opts.dropout,
+          digitReader,
           onDocument: (e) => {
             if (opts.quiet) return;
             const name = printable(path.relative(process.cwd(), e.file) || e.file);
@@ -98,6 +105,7 @@ export function registerExtractCommand(program: Command): void {
         if (s.documents.failed > 0) process.exitCode = 1;
       } finally {
         await detector.close();
+        await digitReader?.close();
         await closeSharedOcrEngine();
       }
     });

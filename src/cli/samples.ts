@@ -20,6 +20,7 @@ interface GenerateFlags {
   format: string;
   upsideDown: string;
   blank?: boolean;
+  realDigits?: boolean;
 }
 
 function oneOf<T extends string>(flag: string, value: string, allowed: readonly T[]): T {
@@ -60,6 +61,7 @@ export function registerSamplesCommand(program: Command): void {
     .option('--styles <set>', 'random layouts: train | heldout | all style families', 'train')
     .option('--format <fmt>', 'png | jpeg | tiff', 'png')
     .option('--upside-down <rate>', 'share of pages fed upside down when degrading', '0.03')
+    .option('--real-digits', 'write digits in comb boxes as real handwriting (MNIST test split; needs the dev dependency mnist)')
     .option('--blank', 'also write the blank reference <layout>.blank.png and its schema <layout>.yaml (demo layouts)')
     .action(async (flags: GenerateFlags) => {
       if (!isLayoutName(flags.layout)) throw configError(undefined, `--layout must be one of ${LAYOUT_NAMES.join(', ')}; got "${flags.layout}"`);
@@ -82,6 +84,7 @@ export function registerSamplesCommand(program: Command): void {
           styles: oneOf<StyleSelection>('styles', flags.styles, ['train', 'heldout', 'all']),
           format: oneOf<PageFormat>('format', flags.format, ['png', 'jpeg', 'tiff']),
           upsideDownRate: rate,
+          realDigits: flags.realDigits,
         },
         progress(flags.count),
       );

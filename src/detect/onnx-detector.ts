@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
-import { InferenceSession, Tensor } from './onnx-runtime.js';
+import { createCpuSession, type InferenceSession, Tensor } from './onnx-runtime.js';
 import { configError, oneLine } from '../errors.js';
 import { clampBox, transformBox } from '../page/geometry.js';
 import type { GrayImage } from '../page/raster.js';
@@ -78,13 +78,7 @@ async function openDetector(modelPath: string, key: string, options: LoadDetecto
 
   let session: InferenceSession;
   try {
-    session = await InferenceSession.create(bytes, {
-      executionProviders: ['cpu'],
-      graphOptimizationLevel: 'all',
-      executionMode: 'sequential',
-      interOpNumThreads: 1,
-      ...(options.intraOpThreads ? { intraOpNumThreads: options.intraOpThreads } : {}),
-    });
+    session = await createCpuSession(bytes, options.intraOpThreads);
   } catch (err) {
     throw configError(modelPath, `onnxruntime cannot load the model: ${oneLine(err)}`, err);
   }

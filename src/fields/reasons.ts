@@ -82,6 +82,11 @@ export const REASONS = {
     meaning: 'Digits read inside a word were taken as the letters they resemble (0 as O, 1 as l, 5 as S).',
     check: 'The spelling against the crop.',
   },
+  ambiguous_digit_readers: {
+    effect: 'review',
+    meaning: 'Tesseract read a digit comb confidently, and the handwritten-digit reader read it as other digits.',
+    check: 'Each digit against the crop.',
+  },
   ambiguous_unread_writing: {
     effect: 'review',
     meaning: 'The recogniser read nothing, but there are pen strokes in the area.',

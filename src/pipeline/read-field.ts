@@ -9,6 +9,9 @@ import { withoutPrintedLabel } from '../read/printed-label.js';
 import { readTextField } from '../read/read-text.js';
 import type { LocatedField, LocatedPart } from '../locate/locate-fields.js';
 import type { BlankPart } from '../read/blank-crop.js';
+import { readDigitComb } from '../read/digit-comb.js';
+import type { DigitReader } from '../read/digit-reader.js';
+import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -27,6 +30,8 @@ export interface ReadFieldContext {
   typeContext: FieldTypeContext;
   /** The schema page's blank image, when it names one: marks are then measured as ink added over it. */
   reference?: GrayImage;
+  /** Reads digit combs cell by cell beside Tesseract (digit-cross-check.ts); absent: Tesseract alone. */
+  digitReader?: DigitReader;
 }
 
 /**
@@ -68,10 +73,20 @@ export async function readLocatedField(
         return i.outcome === 'valid' || (i.outcome === 'empty' && !field.required);
       },
     });
-    const reading = withoutPrintedLabel(read.reading, field.label);
+    let reading = withoutPrintedLabel(read.reading, field.label);
     let interpretation = type.interpret(reading, options, ctx.typeContext);
     const details: Record<string, unknown> = { attempts: read.attempts };
     if (reading !== read.reading) details.droppedLabel = true;
+    if (ctx.digitReader && isDigitComb(field.class === 'comb_field', hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
+      // The scanned page, not the dropout one: cells are cut at the printed separators.
+      const digits = await readDigitComb(cropField(ctx.page, box, padding), ctx.digitReader);
+      if (digits) {
+        const firstAccepted = read.attempts[0]?.accepted ?? null;
+        const checked = crossCheckDigits({ reading, interpretation, firstAccepted }, digits, (r) => type.interpret(r, options, ctx.typeContext));
+        ({ reading, interpretation } = checked);
+        details.digitCells = checked.details;
+      }
+    }
     if (blank && interpretation.outcome !== 'empty' && writingPastEdge(ctx.page, blank)) {
       // The value may be cut off at the region's edge: never accepted as read.
       interpretation = { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, 'writing_past_edge'] };

@@ -88,19 +88,29 @@ export async function readVariant(
 }
 
 /**
+ * The cells of a comb field: binarize the crop (after the variant's deskew; Otsu when the variant names no
+ * threshold), find the printed vertical separators, and cut the field box at them. Returns the cell boxes (crop
+ * pixels, left to right) and the binary crop with its ruled lines removed. The crop is not resampled, so the boxes
+ * also index `crop.image` when the variant has no deskew step.
+ */
+export function locateCombCells(crop: FieldCrop, variant: CleanupVariant, skew?: number): { cells: Box[]; ruled: GrayImage } {
+  const ctx = { inner: crop.inner, mode: 'char' as const, comb: true, skew };
+  const before = variant.steps.filter((s) => s === 'deskew' || s === 'otsu' || s === 'sauvola');
+  const binary = cleanCrop(crop.image, { name: variant.name, steps: before.some((s) => s !== 'deskew') ? before : [...before, 'otsu'] }, ctx);
+  const removal = removeRuledLines(binary, ruleLengths(ctx, crop.inner));
+  return { cells: combCells(removal.vertical, binary.width, crop.inner), ruled: removal.image };
+}
+
+/**
  * Comb field, cell by cell: binarize (after the variant's deskew), find the printed separators, and read every
  * cell as a single character (tesseract PSM 10). Without at least two cells it reads the line as a whole.
  */
 async function readCells(crop: FieldCrop, variant: CleanupVariant, options: VariantOptions): Promise<TextReading & { blank: boolean }> {
-  const ctx = { inner: crop.inner, mode: 'char' as const, comb: true, skew: options.skew };
-  const before = variant.steps.filter((s) => s === 'deskew' || s === 'otsu' || s === 'sauvola');
-  const binary = cleanCrop(crop.image, { name: variant.name, steps: before.some((s) => s !== 'deskew') ? before : [...before, 'otsu'] }, ctx);
-  const removal = removeRuledLines(binary, ruleLengths(ctx, crop.inner));
-  const cells = combCells(removal.vertical, binary.width, crop.inner);
+  const { cells, ruled } = locateCombCells(crop, variant, options.skew);
   if (cells.length < 2) {
     return readVariant(crop, { name: variant.name, steps: variant.steps }, { ...options, mode: 'line', comb: true });
   }
-  const clean = removeDashedRules(removal.image);
+  const clean = removeDashedRules(ruled);
   const engine = options.engine ?? sharedOcrEngine();
   const chars: (string | null)[] = [];
   const words: OcrWord[] = [];

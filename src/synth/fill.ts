@@ -14,6 +14,8 @@ export interface Pen {
   /** Share of the write box's height the letters take. */
   size: number;
   handwriting: boolean;
+  /** Digits in comb cells are real handwriting from the MNIST test split (handwritten-digits.ts), not a font. */
+  realDigits?: boolean;
 }
 
 export type FieldValue = string | number | boolean | string[] | null;

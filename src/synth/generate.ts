@@ -22,6 +22,8 @@ export interface GenerateOptions {
   format: PageFormat;
   /** Share of pages fed upside down (only when degrading). */
   upsideDownRate: number;
+  /** Digits in comb cells drawn from real handwriting (the MNIST test split) instead of a font. */
+  realDigits?: boolean;
 }
 
 export interface GenerateSummary {
@@ -58,6 +60,7 @@ export async function generateSamples(o: GenerateOptions, onPage?: (index: numbe
       fill,
       scan: { level: o.degrade, dpi: o.dpi, upsideDownRate: o.upsideDownRate },
       encoderDoesJpeg: o.format === 'jpeg',
+      realDigits: o.realDigits,
     });
     const bytes = await encodePage(page.image, o.format, page.scan.dpi, page.scan.jpegQuality ?? 88);
     await writeFileAtomic(path.join(o.out, file), bytes);

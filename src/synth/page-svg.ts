@@ -2,6 +2,7 @@ import type { Box } from '../page/geometry.js';
 import { checkboxMarkSvg, checkboxOutlineSvg } from './checkbox-mark.js';
 import type { FieldFill, Pen } from './fill.js';
 import { FONT_FAMILIES, type FontKey } from './fonts.js';
+import { handwrittenDigitSvg } from './handwritten-digits.js';
 import type { EntrySlot, Layout, Printed } from './layout-model.js';
 import type { Rng } from './prng.js';
 import { signatureSvg } from './signature-strokes.js';
@@ -161,7 +162,11 @@ function fillSvg(fill: FieldFill, pen: Pen, rng: Rng): string {
     const size = Math.min(wb.h, cw * 1.4) * pen.size * 1.1;
     return [...fill.text]
       .slice(0, slot.look.cells)
-      .map((ch, i) => writtenText(wb.x + cw * (i + 0.5), wb.y + wb.h * 0.78 + jitterY(), size, ch, pen, rng, 'middle'))
+      .map((ch, i) =>
+        pen.realDigits && /[0-9]/.test(ch)
+          ? handwrittenDigitSvg(ch, { x: wb.x + cw * i, y: wb.y, w: cw, h: wb.h }, rng, { ink: pen.ink })
+          : writtenText(wb.x + cw * (i + 0.5), wb.y + wb.h * 0.78 + jitterY(), size, ch, pen, rng, 'middle'),
+      )
       .join('');
   }
   if (slot.look.kind === 'parts') {

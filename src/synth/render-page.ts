@@ -25,12 +25,14 @@ export interface PageRequest {
   scan: ScanOptions;
   /** Leave the scan's JPEG step to the final encoder (when the output itself is JPEG). */
   encoderDoesJpeg?: boolean;
+  /** Write comb digits as real handwriting from the MNIST test split (handwritten-digits.ts). */
+  realDigits?: boolean;
 }
 
 /** One filled, scanned page with its truth. Every random choice comes from the page seed. */
 export async function renderPage(req: PageRequest): Promise<RenderedPage> {
   const rng = new Rng(req.pageSeed);
-  const pen = drawPen(rng.fork('pen'), req.fill);
+  const pen = { ...drawPen(rng.fork('pen'), req.fill), ...(req.realDigits ? { realDigits: true } : {}) };
   const fills = fillLayout(req.layout, req.fill, rng.fork('fill'));
   const svg = pageSvg(req.layout, fills, req.fill === 'blank' ? null : pen, rng.fork('ink'));
   const reference = await rasterizeSvg(svg);
