@@ -4,6 +4,7 @@ import path from 'node:path';
 import { glob } from 'tinyglobby';
 import { configError } from '../errors.js';
 import { isReservedId, JOURNAL_FILE, RESULTS_FILE } from '../results/layout.js';
+import { recordedPath } from '../results/recorded-path.js';
 
 /** File extensions taken from folders; a file named explicitly is always tried (and fails cleanly if not an image). */
 export const IMAGE_EXTENSIONS = ['png', 'jpg', 'jpeg', 'tif', 'tiff', 'webp', 'pdf'];
@@ -74,9 +75,9 @@ class Discovery {
     } else if (here === real) {
       // The file itself, found after a link to it: the file keeps its own name and id, the link is skipped.
       this.files.set(real, here);
-      this.skip(first, `same file as ${here} (a second link to it)`);
+      this.skip(first, `same file as ${recordedPath(here)} (a second link to it)`);
     } else {
-      this.skip(file, `same file as ${first} (a second link to it)`);
+      this.skip(file, `same file as ${recordedPath(first)} (a second link to it)`);
     }
   }
 

@@ -148,7 +148,8 @@ describe('the bad-input corpus', () => {
       'good.overlay.png': "formglean's own output (a field overlay)",
       'old-results': 'a formglean results folder (output, not input)',
       loop: 'folder already searched (a link back to it: a loop, or a second link)',
-      'good-again.png': `same file as ${path.join(corpus, 'good.png')} (a second link to it)`,
+      // Paths are recorded relative to the working folder the command ran in (the repository here).
+      'good-again.png': `same file as ${path.relative(REPO, path.join(corpus, 'good.png'))} (a second link to it)`,
     });
     const summary = JSON.parse(await readFile(path.join(out, 'summary.json'), 'utf8'));
     expect(summary.skipped).toHaveLength(6);
@@ -156,7 +157,7 @@ describe('the bad-input corpus', () => {
     const again = await runCli(['extract', corpus, '--schema', SCHEMA, '--out', out, '--resume']);
     expect(again.code).toBe(1);
     const text = await readFile(path.join(out, 'results.jsonl'), 'utf8');
-    expect(text).toContain(`"path":${JSON.stringify(out)},"ok":false,"skipped":"this run's results folder (output, not input)"`);
+    expect(text).toContain(`"path":${JSON.stringify(path.relative(REPO, out))},"ok":false,"skipped":"this run's results folder (output, not input)"`);
     expect(text).not.toContain(path.join(out, 'review'));
   }, 300_000);
 });
