@@ -7,8 +7,8 @@ export function registerCalibrateCommand(program: Command): void {
   program
     .command('calibrate')
     .description('Fit confidence to observed accuracy and propose per-field review thresholds for a target error')
-    .requiredOption('--results <dir>', 'folder written by extract')
-    .requiredOption('--truth <dir>', 'folder written by samples generate (truth/<stem>.json)')
+    .requiredOption('--results <dir>', 'folder written by extract (with review answers applied, when no --truth)')
+    .option('--truth <dir>', 'folder written by samples generate (truth/<stem>.json); without it, the labels are the fields a person reviewed in --results (confirmed: right, corrected: wrong)')
     .requiredOption('--schema <file>', 'the schema the results were read with (YAML or JSON)')
     .option('--target-error <share>', 'highest share of wrong values among accepted fields', (v) => Number(v), 0.005)
     .option('--out <file>', 'calibrated copy of the schema (default <schema>.calibrated.<ext>)')

@@ -14,12 +14,16 @@ import {
 import { roundLevel, withCalibration, type SchemaFieldCalibration } from './calibration-schema.js';
 import { applyIsotonic } from './calibration.js';
 import { DEFAULT_BINS } from './reliability.js';
-import { loadScoreInputs } from './score-run.js';
+import { reviewedSamples, type ReviewedSample } from './reviewed-labels.js';
+import { loadResults } from './score-input.js';
+import { loadScoreInputs, requireFolder } from './score-run.js';
 import { scoreAll, type ScoredField } from './score.js';
+import { checkTarget, type TargetCheck } from './target-check.js';
 
 export interface CalibrateOptions {
   results: string;
-  truth: string;
+  /** Truth folder of generated samples; without it, labels come from fields a person reviewed (reviewed-labels.ts). */
+  truth?: string;
   schema: string;
   targetError: number;
   /** Calibrated schema copy; default <schema stem>.calibrated<ext> beside the schema. */
@@ -37,14 +41,18 @@ export interface CalibrateRun {
   current: Map<string, number>;
   out: string;
   documents: number;
+  /** Where the labels came from: the generator's truth, or review answers in the results. */
+  labels: 'truth' | 'review';
+  target: TargetCheck;
 }
 
 /** Fewest samples for a map of a field's own (else its type's, else all): below ~100 a handful of errors decides
  *  the whole fit (common practice to pool sparse groups; the number is a judgement, not a measurement). */
 export const DEFAULT_MIN_SAMPLES = 100;
 
-export function calibrationSamples(items: readonly ScoredField[]): CalibrationSample[] {
+export function calibrationSamples(items: readonly ScoredField[]): ReviewedSample[] {
   return items.map((i) => ({
+    document: i.document,
     field: i.field,
     type: i.type,
     confidence: i.rawConfidence,
@@ -75,19 +83,49 @@ export function schemaCalibration(f: FieldCalibration): SchemaFieldCalibration {
 }
 
 /**
- * Fit maps and thresholds for one schema on scored labeled fields (those of fields the schema has): the proposal,
- * what to write per field, and how many documents it rests on.
+ * Fit maps and thresholds for one schema on labeled fields (those of fields the schema has): the proposal, what to
+ * write per field, how many documents and labeled fields it rests on.
  */
+export function calibrateSamples(
+  samples: readonly ReviewedSample[],
+  schema: FormSchema,
+  options: { targetError: number; minSamples: number },
+): { proposal: ThresholdProposal; fields: Map<string, SchemaFieldCalibration>; documents: number } {
+  const known = new Set(schema.fields.map((f) => f.name));
+  const used = samples.filter((i) => known.has(i.field));
+  const proposal = proposeThresholds(used, options);
+  const fields = new Map(proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
+  return { proposal, fields, documents: new Set(used.map((i) => i.document)).size };
+}
+
+/** calibrateSamples on fields scored against truth. */
 export function calibrateItems(
   items: readonly ScoredField[],
   schema: FormSchema,
   options: { targetError: number; minSamples: number },
 ): { proposal: ThresholdProposal; fields: Map<string, SchemaFieldCalibration>; documents: number } {
-  const known = new Set(schema.fields.map((f) => f.name));
-  const used = items.filter((i) => known.has(i.field));
-  const proposal = proposeThresholds(calibrationSamples(used), options);
-  const fields = new Map(proposal.fields.map((f) => [f.field, schemaCalibration(f)]));
-  return { proposal, fields, documents: new Set(used.map((i) => i.document)).size };
+  return calibrateSamples(calibrationSamples(items), schema, options);
+}
+
+/** Labeled fields of this schema's documents, from truth when given, else from review answers in the results. */
+async function labeledSamples(options: CalibrateOptions, schema: FormSchema): Promise<ReviewedSample[]> {
+  const formName = schema.form.name;
+  if (options.truth) {
+    const inputs = await loadScoreInputs(options.results, options.truth);
+    // Only documents this schema read: a results folder may mix forms.
+    const results = new Map<string, DocumentResult>([...inputs.results].filter(([, r]) => r.schema.name === formName));
+    const truth = new Map([...inputs.truth].filter(([stem]) => results.has(stem)));
+    if (truth.size === 0) {
+      throw configError(options.results, `no results of form "${formName}" with matching truth in ${options.truth}`);
+    }
+    return calibrationSamples(scoreAll({ truth, results, failed: new Set(), bins: DEFAULT_BINS }).items);
+  }
+  await requireFolder(options.results, 'results');
+  const results = new Map(
+    [...(await loadResults(options.results))].filter(([, e]) => e.result.schema.name === formName).map(([k, e]) => [k, e.result]),
+  );
+  if (results.size === 0) throw configError(options.results, `holds no results of form "${formName}"`);
+  return reviewedSamples(results);
 }
 
 export function defaultCalibratedPath(schemaFile: string): string {
@@ -112,21 +150,26 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
     throw configError(options.schema, code === 'ENOENT' ? 'schema file not found' : `cannot read schema file (${code})`);
   }
   const schema = parseSchemaText(text, options.schema);
-  const inputs = await loadScoreInputs(options.results, options.truth);
-  // Only documents this schema read: a results folder may mix forms.
-  const results = new Map<string, DocumentResult>(
-    [...inputs.results].filter(([, r]) => r.schema.name === schema.form.name),
-  );
-  const truth = new Map([...inputs.truth].filter(([stem]) => results.has(stem)));
-  if (truth.size === 0) {
-    throw configError(options.results, `no results of form "${schema.form.name}" with matching truth in ${options.truth}`);
+  const labels = options.truth ? 'truth' : 'review';
+  const known = new Set(schema.fields.map((f) => f.name));
+  const samples = (await labeledSamples(options, schema)).filter((x) => known.has(x.field));
+  // With fewer labels than one map needs, every map would be fitted on too few (fitMaps pools sparse fields into
+  // their type, then into one map over all fields; that last map is the smallest any field can get).
+  if (samples.length < minSamples) {
+    const what = labels === 'truth' ? 'labeled fields' : 'reviewed fields (confirmed or corrected)';
+    throw configError(
+      options.results,
+      `only ${samples.length} ${what} of form "${schema.form.name}"; at least ${minSamples} are needed to fit a ` +
+        `confidence map (--min-samples); no thresholds written`,
+    );
   }
-  const { items } = scoreAll({ truth, results, failed: new Set(), bins: DEFAULT_BINS });
-  const { proposal, fields } = calibrateItems(items, schema, { targetError, minSamples });
+  const { proposal, fields, documents } = calibrateSamples(samples, schema, { targetError, minSamples });
+  const target = checkTarget(proposal);
 
   const current = new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold]));
   const note =
-    ` reviewThreshold values calibrated by formglean calibrate on ${truth.size} labeled documents, ` +
+    ` reviewThreshold values calibrated by formglean calibrate on ${documents} ${labels === 'truth' ? 'labeled' : 'reviewed'} documents ` +
+    `(${samples.length} labeled fields), ` +
     `target error among accepted fields ${targetError} (${new Date().toISOString().slice(0, 10)}); with a ` +
     `confidenceMap the threshold is on the mapped scale (the accuracy observed at the raw confidence)`;
   const out = options.out ?? defaultCalibratedPath(options.schema);
@@ -141,11 +184,12 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
       format: 1,
       schema: { name: schema.form.name, version: schema.form.version },
       targetError,
-      documents: truth.size,
+      documents,
+      labels,
       fields: Object.fromEntries(
         proposal.fields.map((f) => [f.field, { type: f.type, scope: f.scope, threshold: f.threshold, steps: f.map.steps }]),
       ),
     });
   }
-  return { proposal, fields, current, out, documents: truth.size };
+  return { proposal, fields, current, out, documents, labels, target };
 }

@@ -21,8 +21,8 @@ export function formatCalibration(run: CalibrateRun): string {
     f.accepted > 0 ? pct(f.acceptedErrors / f.accepted, 2) : '-',
   ]);
   const overall =
-    `${run.documents} documents, ${p.samples} fields: thresholds accept ${pct(p.samples ? p.accepted / p.samples : 0)} ` +
+    `${run.documents} ${run.labels === 'review' ? 'reviewed ' : ''}documents, ${p.samples} labeled fields: thresholds accept ${pct(p.samples ? p.accepted / p.samples : 0)} ` +
     `with ${p.accepted ? pct(p.acceptedErrors / p.accepted, 2) : '-'} wrong among accepted ` +
     `(target ${pct(p.targetError, 2)}; measured on the calibration data itself, so check on a held-out set)`;
-  return `${formatRows(header, rows)}\n\n${overall}\n`;
+  return `${formatRows(header, rows)}\n\n${overall}\n${run.target.message}\n`;
 }

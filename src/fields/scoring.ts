@@ -8,7 +8,9 @@ import type { ReasonCode } from './reasons.js';
  * confidence = location × reading × value (× legibility for OCR reads), each factor 0..1:
  *  - location: how the area was found. A detection contributes 0.8 + 0.2 × its score (detector scores rank well but
  *    are not calibrated probabilities, so a low score dents rather than sinks the field); the schema region after
- *    page alignment (region fallback) is a fixed 0.85; nothing located is 0.
+ *    page alignment (region fallback) earns from REGION_FALLBACK_FACTOR up to 1 by how well the page aligned
+ *    (regionFactor: image-registration correlation, fit residual, the local touch-up's correlation); without such
+ *    evidence it stays at REGION_FALLBACK_FACTOR; nothing located is 0.
  *  - reading: for OCR, 0.6 × the weakest word's confidence + 0.4 × the mean word confidence — one garbled word
  *    spoils a date or a phone number however clean the rest is; with no words, tesseract's crop confidence. Marks
  *    and ink readings have no OCR and contribute 1 (their evidence is in `value`).
@@ -35,6 +37,20 @@ export interface ScoreInput {
   confidenceMap?: ConfidenceMapPoints;
   /** Form legibility factor for OCR-read fields (legibility.ts); 1 when absent. */
   legibility?: number;
+  /** How well the field's page aligned, for a field read at its schema region (source 'region'). */
+  alignment?: AlignmentEvidence;
+}
+
+/** What is known of a page's alignment at one field (src/page/alignment.ts, src/page/local-refine.ts). */
+export interface AlignmentEvidence {
+  /** 'image', 'image+detections', 'detections' or 'identity' (src/page/alignment.ts). */
+  method: string;
+  /** 0..1: image-registration correlation, or the share of regions matched for 'detections'. */
+  score: number;
+  /** Reference pixels: RMS disagreement of detections and the fit; null when nothing measured it. */
+  residual: number | null;
+  /** Lowest correlation of the local touch-up over the field's region parts (-1..1); null when none ran. */
+  refine: number | null;
 }
 
 export interface FieldScore {
@@ -55,12 +71,60 @@ export const LOW_OCR_CONFIDENCE = 0.75;
 /** Share of the location factor a detection earns whatever its score (see locationFactor). On the development set
  *  (seeds 800101-800302) 0.8, 0.9 and 0.95 ranked right and wrong typed values alike; 0.8 is kept. */
 export const DETECTION_BASE = 0.8;
-/** Location factor for a field read at its schema region because no detection matched. */
+/** Location factor for a field read at its schema region because no detection matched, when nothing says how well
+ *  the page aligned (the floor of regionFactor; common practice, kept from before evidence was used). */
 export const REGION_FALLBACK_FACTOR = 0.85;
 
-export function locationFactor(source: ScoreInput['source'], detectionScore: number | null): number {
+/**
+ * Evidence ramps for a region read (each maps its measure linearly onto 0..1 between its two ends):
+ *  - REGISTRATION_RAMP: zero-mean NCC of the page's ink with the blank after image registration
+ *    (src/page/align-image.ts). On the real-form bench's development forms (bench/real-forms.ts --half dev --count 2
+ *    --only irs-f8888-2025,irs-f941-2024,ssa-827-2020,uscourts-b2030-2025) every page, typed or handwritten,
+ *    registered at 0.944-0.978; align-image.ts rejects a fit under 0.3 as degenerate. Full credit from 0.9, none
+ *    under 0.7.
+ *  - TOUCHUP_RAMP: the local touch-up's correlation at its best shift (src/page/local-refine.ts). refineRegion
+ *    trusts a shift from 0.5 (its default minScore); entries written into the window lower the correlation with
+ *    the blank, so full credit comes well under 1: on the development pages above, region reads that were right
+ *    (typed and handwritten) had touch-ups at 0.54-0.95, most 0.6-0.75, and the wrong ones were no lower (their
+ *    errors were the OCR's, which the reading factor carries). Full credit from 0.6, none under 0.4.
+ *  - RESIDUAL_RAMP (reversed), for an alignment from detections alone: RMS distance, reference pixels, of the
+ *    matched detections from their regions after the fit. Within 2 px a text line's region still holds its entry
+ *    (common practice: regions carry a few pixels of margin); 8 px is align.ts's "agree within" (about 1 mm at 200
+ *    dpi). For an image alignment the residual is how far the losing detection estimate lay from the image fit
+ *    that won on whole-page correlation (src/page/align.ts); it says little of the fit and is not used: on the
+ *    development forms above it ran from 11 to 168 px on pages whose region reads were right.
+ *  - MATCHED_RAMP: for an alignment from detections alone, the share of regions a detection matched (common
+ *    practice: a fit on under a third of the regions is weak, on more than 60 % as good as it gets from boxes).
+ */
+export const REGISTRATION_RAMP: readonly [number, number] = [0.7, 0.9];
+export const TOUCHUP_RAMP: readonly [number, number] = [0.4, 0.6];
+export const RESIDUAL_RAMP: readonly [number, number] = [2, 8];
+export const MATCHED_RAMP: readonly [number, number] = [0.3, 0.6];
+
+function ramp(v: number, [lo, hi]: readonly [number, number]): number {
+  return clamp01((v - lo) / (hi - lo));
+}
+
+/**
+ * Location factor of a field read at its aligned schema region: REGION_FALLBACK_FACTOR plus the rest up to 1 in
+ * proportion to the weakest piece of alignment evidence. No evidence (identity, or none passed) keeps the floor.
+ */
+export function regionFactor(evidence: AlignmentEvidence | undefined): number {
+  if (!evidence || evidence.method === 'identity') return REGION_FALLBACK_FACTOR;
+  const parts: number[] = [];
+  if (evidence.method === 'detections') {
+    parts.push(ramp(evidence.score, MATCHED_RAMP));
+    if (evidence.residual !== null) parts.push(1 - ramp(evidence.residual, RESIDUAL_RAMP));
+  } else {
+    parts.push(ramp(evidence.score, REGISTRATION_RAMP));
+  }
+  if (evidence.refine !== null) parts.push(ramp(evidence.refine, TOUCHUP_RAMP));
+  return REGION_FALLBACK_FACTOR + (1 - REGION_FALLBACK_FACTOR) * Math.min(...parts);
+}
+
+export function locationFactor(source: ScoreInput['source'], detectionScore: number | null, alignment?: AlignmentEvidence): number {
   if (source === 'none') return 0;
-  if (source === 'region') return REGION_FALLBACK_FACTOR;
+  if (source === 'region') return regionFactor(alignment);
   return DETECTION_BASE + (1 - DETECTION_BASE) * clamp01(detectionScore ?? 0);
 }
 
@@ -91,8 +155,12 @@ export function scoreField(input: ScoreInput): FieldScore {
   const legibility = clamp01(input.legibility ?? 1);
   const scores: Record<string, number> = {};
   const reasons: ReasonCode[] = [];
-  const location = locationFactor(source, detectionScore);
+  const location = locationFactor(source, detectionScore, input.alignment);
   scores.location = round3(location);
+  if (source === 'region' && input.alignment) {
+    scores.registration = round3(clamp01(input.alignment.score));
+    if (input.alignment.refine !== null) scores.touchup = round3(clamp01(input.alignment.refine));
+  }
   if (source === 'detection' && detectionScore !== null) {
     scores.detection = round3(clamp01(detectionScore));
     if (detectionScore < LOW_DETECTION_SCORE) reasons.push('low_detection_score');

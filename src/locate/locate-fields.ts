@@ -18,6 +18,8 @@ export interface LocatedPart {
   /** The schema region on the reference page (reference pixels), when there is one. */
   region: Box | null;
   reasons: ReasonCode[];
+  /** Correlation of the local touch-up at the region (src/page/local-refine.ts), when it ran. */
+  refineScore?: number;
 }
 
 export interface LocatedField {

@@ -145,7 +145,7 @@ async function extractForm(
   const typeContext = { today: options.today ?? new Date() };
   const fields: FieldResult[] = [];
   const pages: PageResult[] = [];
-  const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine }[] = [];
+  const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine; alignment: Alignment }[] = [];
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
@@ -187,15 +187,15 @@ async function extractForm(
         typeContext,
         digitReader: options.digitReader,
       });
-      read.push({ lf, outcome, toSource });
+      read.push({ lf, outcome, toSource, alignment });
     }
   }
 
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
-  for (const [i, { lf, outcome, toSource }] of read.entries()) {
+  for (const [i, { lf, outcome, toSource, alignment }] of read.entries()) {
     const threshold = lf.field.reviewThreshold ?? schema.defaults.reviewThreshold;
-    const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i]);
+    const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i], alignment);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
       if (field.status === 'accepted') field.status = 'review';

@@ -1,4 +1,5 @@
-import { scoreField } from '../fields/scoring.js';
+import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
+import type { Alignment } from '../page/alignment.js';
 import type { Affine, Box } from '../page/geometry.js';
 import { transformBox } from '../page/geometry.js';
 import type { LocatedField } from '../locate/locate-fields.js';
@@ -39,6 +40,19 @@ function keptValue(interp: FieldReadOutcome['interpretation'], raw: string | nul
   return text === '' ? null : text;
 }
 
+/** The page's alignment as scoring sees it at one field: the weakest touch-up among its region parts. */
+function alignmentEvidence(located: LocatedField, alignment: Alignment | undefined): AlignmentEvidence | undefined {
+  if (!alignment) return undefined;
+  // -1 is refineRegion's "not run" (the region's context reached past the blank's edge): no evidence either way.
+  const refines = located.parts.flatMap((p) => (p.source === 'region' && p.refineScore !== undefined && p.refineScore > -1 ? [p.refineScore] : []));
+  return {
+    method: alignment.method,
+    score: alignment.score,
+    residual: alignment.residual,
+    refine: refines.length ? Math.min(...refines) : null,
+  };
+}
+
 /** Score a read field and shape it as the result contract says, with its box in source pixels. */
 export function buildFieldResult(
   located: LocatedField,
@@ -46,6 +60,7 @@ export function buildFieldResult(
   reviewThreshold: number,
   toSource: Affine,
   legibility = 1,
+  alignment?: Alignment,
 ): FieldResult {
   const { field } = located;
   const { source, detectionScore } = overallSource(located);
@@ -58,6 +73,7 @@ export function buildFieldResult(
     required: field.required,
     confidenceMap: field.confidenceMap,
     legibility,
+    alignment: alignmentEvidence(located, alignment),
   });
   const locateReasons = located.parts.flatMap((p) => p.reasons);
   const reasons = [...new Set([...score.reasons, ...locateReasons])];

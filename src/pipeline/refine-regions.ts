@@ -16,6 +16,7 @@ export function refineRegionParts(located: LocatedField[], page: GrayImage, refe
       const refined = refineRegion(page, reference, refToPage, part.region);
       part.box = refined.box;
       part.expected = refined.box;
+      part.refineScore = refined.score;
     }
   }
 }

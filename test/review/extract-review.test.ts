@@ -9,6 +9,7 @@ import { DocumentResult } from '../../src/result/document.js';
 import { applyReviewQueue } from '../../src/review/apply.js';
 import { readAudit } from '../../src/review/audit.js';
 import { valueToCell } from '../../src/review/cell-value.js';
+import { typedByPerson, type TruthField } from '../support/person-answer.js';
 
 const repo = path.resolve(import.meta.dirname, '../..');
 const dirs: string[] = [];
@@ -16,20 +17,6 @@ afterAll(async () => {
   await closeSharedOcrEngine();
   for (const d of dirs) await rm(d, { recursive: true, force: true });
 });
-
-interface TruthField {
-  name: string;
-  value: string | number | boolean | string[] | null;
-  text: string | null;
-}
-
-/** What a person types after looking at the crop: the text as written, or for marks yes/no, "(empty)" for a blank. */
-function typedByPerson(t: TruthField): string {
-  if (t.text !== null) return t.text;
-  if (typeof t.value === 'boolean') return t.value ? 'yes' : 'no';
-  if (t.value === null) return '(empty)';
-  return valueToCell(t.value);
-}
 
 async function snapshot(dir: string): Promise<Map<string, string>> {
   const out = new Map<string, string>();
