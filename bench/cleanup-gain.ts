@@ -24,7 +24,7 @@ import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { distance } from 'fastest-levenshtein';
-import { grayFromImage, type GrayImage } from '../src/page/raster.js';
+import { grayFromImage, type GrayImage } from '../src/image/raster.js';
 import { cropField } from '../src/read/crop.js';
 import type { CleanupStep } from '../src/read/cleanup/pipeline.js';
 import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';

@@ -13,13 +13,13 @@ import { readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expectedParts } from '../src/locate/expected-boxes.js';
 import { alignPage } from '../src/page/align.js';
-import { invertAffine, iou, transformBox } from '../src/page/geometry.js';
-import type { Box } from '../src/page/geometry.js';
+import { invertAffine, iou, transformBox } from '../src/image/geometry.js';
+import type { Box } from '../src/image/geometry.js';
 import { matchLayout } from '../src/page/layout-match.js';
 import { refineRegion } from '../src/page/local-refine.js';
 import type { LayoutCandidate } from '../src/page/layout-match.js';
 import { normalizePage } from '../src/page/normalize.js';
-import { grayFromImage } from '../src/page/raster.js';
+import { grayFromImage } from '../src/image/raster.js';
 import { loadSchema, referenceImagePath } from '../src/schema/load.js';
 
 const refine = process.argv.includes('--refine');

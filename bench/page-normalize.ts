@@ -8,9 +8,9 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { normalizePage } from '../src/page/normalize.js';
-import { grayFromImage } from '../src/page/raster.js';
-import { rotateQuarter } from '../src/page/warp.js';
-import type { QuarterTurn } from '../src/page/warp.js';
+import { grayFromImage } from '../src/image/raster.js';
+import { rotateQuarter } from '../src/image/warp.js';
+import type { QuarterTurn } from '../src/image/warp.js';
 
 const dir = process.argv[2];
 if (!dir) {

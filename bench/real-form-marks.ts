@@ -20,12 +20,11 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { loadDetector } from '../src/detect/onnx-detector.js';
-import { DEFAULT_LIMITS } from '../src/input/decode.js';
-import { renderPdfPages } from '../src/input/pdf.js';
+import { renderPdfPage } from '../src/input/pdf.js';
 import { decideMark, decideOneOf, DEFAULT_CHECKED_ABOVE, DEFAULT_CHOICE_MARGIN, DEFAULT_UNCHECKED_BELOW } from '../src/fields/mark-decision.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { iou, type Box } from '../src/page/geometry.js';
-import type { GrayImage } from '../src/page/raster.js';
+import { iou, type Box } from '../src/image/geometry.js';
+import type { GrayImage } from '../src/image/raster.js';
 import { blankUnderCrop } from '../src/read/blank-crop.js';
 import { cropField } from '../src/read/crop.js';
 import { ADDED_INK_CONTRAST, ADDED_INK_TOLERANCE, measureAddedInk, measureMark } from '../src/read/marks.js';
@@ -88,7 +87,7 @@ const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
 const samples: Sample[] = [];
 let groupBase = 0;
 for (const [f, form] of forms.entries()) {
-  const [blank] = await renderPdfPages(await readFile(path.join(args.pdfs, form)), form, DEFAULT_LIMITS);
+  const blank = await renderPdfPage(await readFile(path.join(args.pdfs, form)), form, 0);
   // Printed boxes: the detector's checkboxes on the blank, one per place (overlapping finds of one box dropped).
   const boxes: Box[] = [];
   for (const d of (await detector.detect(blank)).sort((a, b) => b.score - a.score)) {

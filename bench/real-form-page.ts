@@ -10,11 +10,11 @@ import sharp from 'sharp';
 import { alignPage } from '../src/page/align.js';
 import { dropoutForm } from '../src/page/dropout.js';
 import { confirmHalfTurn } from '../src/page/half-turn.js';
-import type { Affine, Point } from '../src/page/geometry.js';
-import { applyAffine, composeAffine, invertAffine } from '../src/page/geometry.js';
+import type { Affine, Point } from '../src/image/geometry.js';
+import { applyAffine, composeAffine, invertAffine } from '../src/image/geometry.js';
 import { normalizePage } from '../src/page/normalize.js';
-import { fromRawBuffer } from '../src/page/raster.js';
-import { rotationAbout, warpGray } from '../src/page/warp.js';
+import { fromRawBuffer } from '../src/image/raster.js';
+import { rotationAbout, warpGray } from '../src/image/warp.js';
 import { entriesOnly, filledRealForm, inkRecovery, scanLike } from '../test/page/fill-real-form.js';
 import { realBlank } from '../test/page/real-form.js';
 

@@ -26,7 +26,8 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { runBatch } from '../src/batch/run-batch.js';
-import { readResultsLines } from '../src/batch/sinks.js';
+import { readIndex } from '../src/results/index-read.js';
+import { isFailed } from '../src/results/results-line.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { oneLine } from '../src/errors.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
@@ -105,9 +106,9 @@ try {
         if (!existsSync(path.join(results, 'results.jsonl'))) throw new Error('not run (no results in --out)');
         const loaded = await loadSchema(path.join(samples, `${form}.yaml`));
         row.fields = loaded.schema.fields.length;
-        const lines = await readResultsLines(results);
+        const lines = (await readIndex(results)).lines.filter((l) => l.skipped === undefined);
         row.pages = lines.length;
-        row.failedPages = lines.filter((l) => !l.ok).length;
+        row.failedPages = lines.filter(isFailed).length;
         row.extractSeconds = lines.reduce((t, l) => t + (l.seconds ?? 0), 0);
       } else {
         const have = existsSync(path.join(samples, 'truth')) ? (await readdir(path.join(samples, 'truth'))).length : 0;

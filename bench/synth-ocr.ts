@@ -6,7 +6,7 @@
 import { distance } from 'fastest-levenshtein';
 import { createWorker, OEM, PSM } from 'tesseract.js';
 import { englishLangPath } from '../src/read/ocr-engine.js';
-import { cropGray, grayToPng } from '../src/page/raster.js';
+import { cropGray, grayToPng } from '../src/image/raster.js';
 import { DEMO_LAYOUTS, demoLayout, type DemoLayoutName } from '../src/synth/layouts.js';
 import { renderPage } from '../src/synth/render-page.js';
 

@@ -1,4 +1,4 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 
 /**
  * Decoders for the three output tensor layouts common among single-stage detectors exported to ONNX:

@@ -1,5 +1,5 @@
-import { type Affine, invertAffine } from '../page/geometry.js';
-import { type GrayImage, sharpFromGray } from '../page/raster.js';
+import { type Affine, invertAffine } from '../image/geometry.js';
+import { type GrayImage, sharpFromGray } from '../image/raster.js';
 
 /**
  * Letterbox: fit a page into the detector's fixed input size without distorting it. The page is scaled by one

@@ -1,4 +1,4 @@
-import { iou } from '../page/geometry.js';
+import { iou } from '../image/geometry.js';
 import type { Candidate } from './decode.js';
 
 /**

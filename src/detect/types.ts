@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 
 /** One detected entry area, in the pixels of the page it was detected on. */
 export interface Detection {

@@ -2,7 +2,7 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { z } from 'zod';
 import { configError } from '../errors.js';
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import { describeIssue } from '../schema/load.js';
 
 /**

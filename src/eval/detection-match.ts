@@ -1,4 +1,4 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 
 /**
  * Matching scored detections of one class to ground-truth boxes, the step under every AP figure.

@@ -1,7 +1,7 @@
 import { performance } from 'node:perf_hooks';
 import type { Detector } from '../detect/types.js';
 import { FormgleanError, configError } from '../errors.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import { decodeDocument } from '../input/decode.js';
 import { type ClassEvaluation, evaluateClass, meanDefined } from './detection-ap.js';
 import type { DetectionDataset } from './detection-dataset.js';

@@ -1,5 +1,5 @@
 import sharp from 'sharp';
-import { useBundledFonts } from '../synth/fonts.js';
+import { useBundledFonts } from '../image/fonts.js';
 
 /** One class's curve: interpolated precision at recall 0, 0.01, ..., 1 (101 values). */
 export interface PrCurve {

@@ -1,5 +1,5 @@
 import sharp from 'sharp';
-import { useBundledFonts } from '../synth/fonts.js';
+import { useBundledFonts } from '../image/fonts.js';
 import type { Reliability } from './reliability.js';
 
 /** Layout of the picture in pixels: the accuracy plot on top, a strip of bin counts below. */

@@ -1,4 +1,4 @@
-import { iou } from '../page/geometry.js';
+import { iou } from '../image/geometry.js';
 import type { DocumentResult, FieldResult, FieldStatus } from '../result/document.js';
 import { reliability, type Reliability } from './reliability.js';
 import { groupBy } from './score-groups.js';

@@ -1,5 +1,5 @@
 import { documentError } from '../errors.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 export interface DecodeLimits {
   /** Largest page accepted, in pixels (guards against decompression bombs). */

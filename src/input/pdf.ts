@@ -1,6 +1,6 @@
 import { PDFiumLibrary, type PDFiumDocument } from '@hyzyla/pdfium';
 import { documentError } from '../errors.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import type { DecodeLimits, PageSource } from './limits.js';
 import { checkPageSize, checkTotalPixels } from './limits.js';
 

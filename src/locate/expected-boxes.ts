@@ -1,6 +1,6 @@
 import { fieldParts } from '../schema/consistency.js';
 import type { FieldSpec } from '../schema/definition.js';
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 
 /** One box to find on the page: a field, or one box of a choice group. */
 export interface ExpectedPart {

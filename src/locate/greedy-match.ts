@@ -1,5 +1,5 @@
 import type { Detection } from '../detect/types.js';
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import type { ExpectedPart } from './expected-boxes.js';
 import { matchScore } from './match-score.js';
 

@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
-import type { Affine, Box } from '../page/geometry.js';
-import { transformBox } from '../page/geometry.js';
+import type { Affine, Box } from '../image/geometry.js';
+import { transformBox } from '../image/geometry.js';
 import type { FieldSpec } from '../schema/definition.js';
 import type { ReasonCode } from '../fields/reasons.js';
 import type { ExpectedPart } from './expected-boxes.js';

@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import { center, iou } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
+import { center, iou } from '../image/geometry.js';
 
 /**
  * How well a detection stands for an expected (aligned) region, 0..1.

@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
-import type { Affine, Box, Point } from './geometry.js';
-import { center, invertAffine, iou, transformBox } from './geometry.js';
+import type { Affine, Box, Point } from '../image/geometry.js';
+import { center, invertAffine, iou, transformBox } from '../image/geometry.js';
 import type { Alignment, LayoutRegion } from './alignment.js';
 import { fitTransform, rmsError } from './fit.js';
 import type { TransformModel } from './fit.js';

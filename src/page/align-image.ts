@@ -1,9 +1,9 @@
-import type { Affine } from './geometry.js';
-import { invertAffine } from './geometry.js';
+import type { Affine } from '../image/geometry.js';
+import { invertAffine } from '../image/geometry.js';
 import type { Alignment } from './alignment.js';
-import type { InkMap } from './ink-map.js';
-import { blurredInkMap, fromLevel, gradients, projection, toLevel } from './ink-map.js';
-import type { GrayImage } from './raster.js';
+import type { InkMap } from '../image/ink-map.js';
+import { blurredInkMap, fromLevel, gradients, projection, toLevel } from '../image/ink-map.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Direct registration of a page to the blank reference image, coarse to fine:

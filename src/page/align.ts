@@ -1,12 +1,12 @@
 import type { Detection } from '../detect/types.js';
-import type { Affine, Point } from './geometry.js';
-import { applyAffine, center, invertAffine } from './geometry.js';
+import type { Affine, Point } from '../image/geometry.js';
+import { applyAffine, center, invertAffine } from '../image/geometry.js';
 import type { Alignment, LayoutRegion } from './alignment.js';
 import { alignByDetections } from './align-detections.js';
 import type { DetectionAlignOptions } from './align-detections.js';
 import { alignByImage } from './align-image.js';
 import type { ImageAlignOptions } from './align-image.js';
-import type { GrayImage } from './raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Page -> reference alignment from two independent sources that check each other: detections matched to the

@@ -1,4 +1,4 @@
-import type { Affine, Box } from './geometry.js';
+import type { Affine, Box } from '../image/geometry.js';
 
 /** How a page was put onto its reference layout. */
 export type AlignmentMethod = 'detections' | 'image' | 'image+detections' | 'identity';

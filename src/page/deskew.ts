@@ -1,7 +1,7 @@
-import type { Affine } from './geometry.js';
-import { inkMask } from './ink.js';
-import type { GrayImage } from './raster.js';
-import { rotateGray } from './warp.js';
+import type { Affine } from '../image/geometry.js';
+import { inkMask } from '../image/ink.js';
+import type { GrayImage } from '../image/raster.js';
+import { rotateGray } from '../image/warp.js';
 
 /**
  * Small-angle skew by projection-profile search: rotate the lower edges of ink runs (baselines of text and

@@ -1,7 +1,7 @@
-import type { Affine } from './geometry.js';
-import { invertAffine } from './geometry.js';
+import type { Affine } from '../image/geometry.js';
+import { invertAffine } from '../image/geometry.js';
 import { refineRegion } from './local-refine.js';
-import type { GrayImage } from './raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Form dropout: once the page is aligned to its blank reference, every page pixel that falls on (or right next

@@ -1,4 +1,4 @@
-import type { Affine, Point } from './geometry.js';
+import type { Affine, Point } from '../image/geometry.js';
 
 /**
  * Least-squares transforms from point correspondences src[i] -> dst[i], optionally weighted.

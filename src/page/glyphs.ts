@@ -1,8 +1,8 @@
-import { thresholdAt } from '../read/cleanup/binary.js';
-import { labelComponents } from '../read/cleanup/components.js';
-import type { Box } from './geometry.js';
-import { inkThreshold } from './ink.js';
-import type { GrayImage } from './raster.js';
+import { thresholdAt } from '../image/binary.js';
+import { labelComponents } from '../image/components.js';
+import type { Box } from '../image/geometry.js';
+import { inkThreshold } from '../image/ink.js';
+import type { GrayImage } from '../image/raster.js';
 
 /** Character-sized components: a few pixels to a few millimetres tall, not slivers, not frames. */
 export function glyphBoxes(img: GrayImage): Box[] {

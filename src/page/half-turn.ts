@@ -1,9 +1,9 @@
 import { alignByImage } from './align-image.js';
-import { composeAffine } from './geometry.js';
+import { composeAffine } from '../image/geometry.js';
 import type { NormalizedPage } from './normalize.js';
-import type { GrayImage } from './raster.js';
-import type { QuarterTurn } from './warp.js';
-import { rotateQuarter } from './warp.js';
+import type { GrayImage } from '../image/raster.js';
+import type { QuarterTurn } from '../image/warp.js';
+import { rotateQuarter } from '../image/warp.js';
 
 /**
  * Up versus down checked against the blank reference: a page registered the right way up correlates with its

@@ -2,7 +2,7 @@ import type { Detection } from '../detect/types.js';
 import type { Alignment, LayoutRegion } from './alignment.js';
 import { alignByDetections } from './align-detections.js';
 import { alignByImage } from './align-image.js';
-import type { GrayImage } from './raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Which of several layouts is this page? Each candidate is aligned to the page and scored: by the correlation

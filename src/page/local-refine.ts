@@ -1,8 +1,8 @@
-import type { Affine, Box } from './geometry.js';
-import { composeAffine, transformBox } from './geometry.js';
-import type { GrayImage } from './raster.js';
-import { cropGray } from './raster.js';
-import { translation, warpGray } from './warp.js';
+import type { Affine, Box } from '../image/geometry.js';
+import { composeAffine, transformBox } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import { cropGray } from '../image/raster.js';
+import { translation, warpGray } from '../image/warp.js';
 
 /**
  * Field-by-field touch-up of a page alignment. One affine transform cannot follow a sheet that lay curved or

@@ -1,12 +1,12 @@
 import { estimateSkew } from './deskew.js';
-import type { Affine } from './geometry.js';
-import { composeAffine } from './geometry.js';
+import type { Affine } from '../image/geometry.js';
+import { composeAffine } from '../image/geometry.js';
 import { glyphBoxes } from './glyphs.js';
 import type { OrientationEstimate } from './orientation.js';
 import { linesRunDown, orientationEstimate, textBandEvidence } from './orientation.js';
-import type { GrayImage } from './raster.js';
-import type { QuarterTurn } from './warp.js';
-import { quarterTurnAffine, rotateGray, rotateQuarter } from './warp.js';
+import type { GrayImage } from '../image/raster.js';
+import type { QuarterTurn } from '../image/warp.js';
+import { quarterTurnAffine, rotateGray, rotateQuarter } from '../image/warp.js';
 
 /**
  * Upright and level: the page stage before detection. Line direction first (it does not care about skew), then

@@ -1,8 +1,8 @@
-import type { Box } from './geometry.js';
-import { inkThreshold } from './ink.js';
-import type { GrayImage } from './raster.js';
+import type { Box } from '../image/geometry.js';
+import { inkThreshold } from '../image/ink.js';
+import type { GrayImage } from '../image/raster.js';
 import { findPhrases } from './text-phrases.js';
-import type { QuarterTurn } from './warp.js';
+import type { QuarterTurn } from '../image/warp.js';
 
 /**
  * Page orientation from the printed text itself, in two steps:

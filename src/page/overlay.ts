@@ -1,7 +1,7 @@
 import sharp from 'sharp';
-import { useBundledFonts } from '../synth/fonts.js';
-import type { Box } from './geometry.js';
-import type { GrayImage } from './raster.js';
+import { useBundledFonts } from '../image/fonts.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Boxes and captions drawn over a page image, to check by eye what was found where (results, drafted schemas).

@@ -1,10 +1,10 @@
-import { thresholdAt } from '../read/cleanup/binary.js';
-import { labelComponents } from '../read/cleanup/components.js';
-import type { Box } from './geometry.js';
-import { iou } from './geometry.js';
-import { inkThreshold } from './ink.js';
-import type { GrayImage } from './raster.js';
-import { cropGray } from './raster.js';
+import { thresholdAt } from '../image/binary.js';
+import { labelComponents } from '../image/components.js';
+import type { Box } from '../image/geometry.js';
+import { iou } from '../image/geometry.js';
+import { inkThreshold } from '../image/ink.js';
+import type { GrayImage } from '../image/raster.js';
+import { cropGray } from '../image/raster.js';
 
 /**
  * Snap a roughly found entry area onto the printed rules of a blank form: each edge moves to the centre line of a

@@ -1,6 +1,6 @@
-import type { Box } from './geometry.js';
+import type { Box } from '../image/geometry.js';
 import { glyphBoxes } from './glyphs.js';
-import type { GrayImage } from './raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Printed phrases of an upright page — runs of characters on one line with no more than a word space between

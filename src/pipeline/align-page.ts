@@ -2,7 +2,7 @@ import type { Detection } from '../detect/types.js';
 import { expectedParts } from '../locate/expected-boxes.js';
 import { alignPage } from '../page/align.js';
 import type { Alignment, LayoutRegion } from '../page/alignment.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import type { PageResult } from '../result/document.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { referencePageImage } from './reference-images.js';

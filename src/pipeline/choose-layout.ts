@@ -1,7 +1,7 @@
 import type { Detection } from '../detect/types.js';
 import type { Alignment } from '../page/alignment.js';
 import { matchLayout } from '../page/layout-match.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { alignToSchemaPage, layoutRegions } from './align-page.js';
 import { referencePageImage } from './reference-images.js';

@@ -1,7 +1,7 @@
 import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
 import type { Alignment } from '../page/alignment.js';
-import type { Affine, Box } from '../page/geometry.js';
-import { transformBox } from '../page/geometry.js';
+import type { Affine, Box } from '../image/geometry.js';
+import { transformBox } from '../image/geometry.js';
 import type { LocatedField } from '../locate/locate-fields.js';
 import type { FieldResult } from '../result/document.js';
 import type { FieldReadOutcome } from './read-field.js';

@@ -1,5 +1,5 @@
 import type { Alignment } from '../page/alignment.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * The page gate: pages nothing can be read from are refused before any field is read, with the reason, so that an

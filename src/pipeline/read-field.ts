@@ -1,6 +1,6 @@
 import type { FieldType, FieldTypeContext, Interpretation, Reading } from '../fields/types.js';
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 import { cropField, type Padding } from '../read/crop.js';
 import { writingPastEdge } from '../read/edge-overflow.js';
 import { measureBox } from '../read/mark-box.js';

@@ -1,6 +1,6 @@
 import { decodeDocument } from '../input/decode.js';
 import { configError } from '../errors.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { referenceImagePath } from '../schema/load.js';
 

@@ -1,7 +1,7 @@
 import type { LocatedField } from '../locate/locate-fields.js';
-import type { Affine } from '../page/geometry.js';
+import type { Affine } from '../image/geometry.js';
 import { refineRegion } from '../page/local-refine.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * Parts read at their aligned schema region are touched up against the blank reference: a small local shift search

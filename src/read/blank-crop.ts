@@ -1,6 +1,6 @@
 import { formMask } from '../page/dropout.js';
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 
 /** The blank under a part: the reference image, the part's schema region on it, and that region aligned on the page. */
 export interface BlankPart {

@@ -1,8 +1,8 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
-import { cropGray } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import { cropGray } from '../image/raster.js';
 import { isBlank } from './cleanup/pipeline.js';
-import { filterComponents } from './cleanup/components.js';
+import { filterComponents } from '../image/components.js';
 import { inkBounds } from './cleanup/text-band.js';
 import { upscaleToCharacterHeight } from './cleanup/upscale.js';
 import { trimAndPad } from './cleanup/pad.js';

@@ -1,7 +1,7 @@
-import type { Box } from '../page/geometry.js';
-import { clampBox, roundBox } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
-import { cropGray } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import { clampBox, roundBox } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import { cropGray } from '../image/raster.js';
 
 /** Padding around a located area: pixels, or "N%" of the box's shorter side (the schema's `padding`). */
 export type Padding = number | `${number}%` | string;

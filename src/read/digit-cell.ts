@@ -1,4 +1,4 @@
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 
 /**
  * How one form cell becomes the digit reader's input; training/digits/cells.py mirrors it step for step, and the

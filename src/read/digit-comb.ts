@@ -1,5 +1,5 @@
 import type { OcrWord, TextReading } from '../fields/types.js';
-import { cropGray } from '../page/raster.js';
+import { cropGray } from '../image/raster.js';
 import { joinCells } from './comb-cells.js';
 import type { FieldCrop } from './crop.js';
 import type { CellRead, DigitReader } from './digit-reader.js';

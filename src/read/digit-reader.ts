@@ -5,7 +5,7 @@ import { fileURLToPath } from 'node:url';
 import type { InferenceSession } from '../detect/onnx-runtime.js';
 import { readOnnxMetadata } from '../detect/onnx-metadata.js';
 import { configError, oneLine } from '../errors.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import { cellInput, type CellNormalisation, DEFAULT_NORMALISATION } from './digit-cell.js';
 import { createCpuSession, Tensor } from '../detect/onnx-runtime.js';
 

@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 import { blankUnderCrop, type BlankPart } from './blank-crop.js';
 import { cropField } from './crop.js';
 import { measureAddedInk } from './marks.js';

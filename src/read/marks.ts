@@ -1,11 +1,11 @@
 import { formMask } from '../page/dropout.js';
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
-import { thresholdAt, INK } from './cleanup/binary.js';
-import { labelComponents } from './cleanup/components.js';
-import { estimateSkew, rotateGray } from './cleanup/deskew.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import { thresholdAt, INK } from '../image/binary.js';
+import { labelComponents } from '../image/components.js';
+import { estimateCropSkew, rotateCrop } from './cleanup/deskew.js';
 import { removeRuledLines } from './cleanup/line-removal.js';
-import { otsuThreshold } from './cleanup/otsu.js';
+import { otsuThreshold } from '../image/otsu.js';
 
 /**
  * Checkbox fill and signature ink, measured on a grayscale crop (0 = ink, 255 = paper).
@@ -370,8 +370,8 @@ export function inkCoverage(img: GrayImage): number {
   const s = otsuSplit(img.data);
   if (s.lightMean - s.darkMean < MIN_CONTRAST) return 0;
   let binary = thresholdAt(img, s.threshold);
-  const skew = estimateSkew(binary, 4, 0.25);
-  if (skew !== 0) binary = thresholdAt(rotateGray(img, skew), s.threshold);
+  const skew = estimateCropSkew(binary, 4, 0.25);
+  if (skew !== 0) binary = thresholdAt(rotateCrop(img, skew), s.threshold);
   const clean = removeRuledLines(binary, { minHorizontal: Math.round(w * 0.5), minVertical: Math.round(h * 0.5) }).image;
   const { labels, components } = labelComponents(clean);
   const minSize = h * 0.2;

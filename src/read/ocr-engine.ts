@@ -2,8 +2,8 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import { createWorker, OEM, PSM, type Worker } from 'tesseract.js';
 import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
-import type { GrayImage } from '../page/raster.js';
-import { grayToPng } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
+import { grayToPng } from '../image/raster.js';
 
 /** What one OCR call needs besides the pixels. */
 export interface OcrRequest {

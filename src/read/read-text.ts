@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
 import { printedUnderCrop, type BlankPart } from './blank-crop.js';
 import { cropField, type FieldCrop, type Padding } from './crop.js';

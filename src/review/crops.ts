@@ -1,10 +1,10 @@
 import { readdir } from 'node:fs/promises';
 import path from 'node:path';
 import { writeFileAtomic } from '../io/atomic-write.js';
-import type { Box } from '../page/geometry.js';
-import { clampBox, roundBox } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
-import { cropGray, grayToPng, sharpFromGray } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import { clampBox, roundBox } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import { cropGray, grayToPng, sharpFromGray } from '../image/raster.js';
 import type { DocumentResult, ResultBox } from '../result/document.js';
 import { contextCropName, CROPS_DIR, cropName, reviewDir } from './layout.js';
 import { isPending } from './pending.js';

@@ -1,10 +1,10 @@
 import type { Detection } from '../detect/types.js';
-import type { Box } from '../page/geometry.js';
-import { center, iou } from '../page/geometry.js';
-import { inkThreshold } from '../page/ink.js';
-import { cropGray } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import { center, iou } from '../image/geometry.js';
+import { inkThreshold } from '../image/ink.js';
+import { cropGray } from '../image/raster.js';
 import { snapToFrame, snapToRules } from '../page/snap-box.js';
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
 import { FormSchema } from './definition.js';

@@ -1,8 +1,8 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 import { Rng } from './prng.js';
 import { rasterizeSvg } from './rasterize.js';
-import { gray, n, smoothPath, svgDocument } from './svg.js';
+import { gray, n, smoothPath, svgDocument } from '../image/svg.js';
 
 /** How a person marked (or did not mark) a box. `dot` is a stray pen touch: the box still counts as unchecked. */
 export const MARK_KINDS = ['empty', 'tick', 'cross', 'fill', 'scribble', 'light', 'dot'] as const;

@@ -1,4 +1,4 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import { DETECTOR_CLASSES, type DetectorClass, type Layout } from './layout-model.js';
 import type { ScanParams } from './scan-params.js';
 import { boxTuple } from './box-tuple.js';

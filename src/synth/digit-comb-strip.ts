@@ -1,12 +1,12 @@
-import type { Box } from '../page/geometry.js';
-import type { GrayImage } from '../page/raster.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
 import { handwrittenDigitSvg } from './handwritten-digits.js';
 import { IDENTITY_H } from './homography.js';
 import type { Rng } from './prng.js';
 import { rasterizeSvg } from './rasterize.js';
 import { drawScanParams, type DegradeLevel } from './scan-params.js';
 import { simulateScan } from './scan-simulate.js';
-import { svgDocument } from './svg.js';
+import { svgDocument } from '../image/svg.js';
 
 /** A printed comb box holding real handwritten digits, scanned: for tests and benches of digit reading. */
 export interface DigitCombStrip {

@@ -1,5 +1,5 @@
-import type { GrayImage } from '../page/raster.js';
-import { sharpFromGray } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
+import { sharpFromGray } from '../image/raster.js';
 
 export type PageFormat = 'png' | 'jpeg' | 'tiff';
 

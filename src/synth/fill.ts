@@ -1,4 +1,4 @@
-import type { FontKey } from './fonts.js';
+import type { FontKey } from '../image/fonts.js';
 import type { FieldTypeName, Layout, LayoutField } from './layout-model.js';
 import { isChecked, type MarkKind } from './checkbox-mark.js';
 import type { Rng } from './prng.js';

@@ -1,8 +1,8 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import { grayAlphaPng } from './ink-png.js';
 import { MNIST_SIZE, mnistDigit, testIndices } from './mnist-digits.js';
 import type { Rng } from './prng.js';
-import { n } from './svg.js';
+import { n } from '../image/svg.js';
 
 /** One handwritten digit from the MNIST test split, ready to place: its PNG (ink gray, alpha = stroke) and where. */
 export interface HandwrittenDigit {

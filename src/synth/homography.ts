@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import { clampBox, roundBox } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
+import { clampBox, roundBox } from '../image/geometry.js';
 
 /** 3x3 projective transform, row-major: [x', y', w'] = H [x, y, 1]; points are (x'/w', y'/w'). */
 export type Homography = readonly [number, number, number, number, number, number, number, number, number];

@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import type { FontKey } from './fonts.js';
+import type { Box } from '../image/geometry.js';
+import type { FontKey } from '../image/fonts.js';
 import type { EntryLook, EntrySlot, FieldTypeName, Layout, LayoutField, Printed } from './layout-model.js';
 import { REFERENCE_HEIGHT, REFERENCE_WIDTH } from './layout-model.js';
 import type { Rng } from './prng.js';

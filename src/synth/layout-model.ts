@@ -1,5 +1,5 @@
-import type { Box } from '../page/geometry.js';
-import type { FontKey } from './fonts.js';
+import type { Box } from '../image/geometry.js';
+import type { FontKey } from '../image/fonts.js';
 
 /** Detector classes in model index order (shared vocabulary). COCO category id = index + 1. */
 export const DETECTOR_CLASSES = ['text_entry', 'checkbox', 'signature_area', 'comb_field'] as const;

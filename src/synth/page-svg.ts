@@ -1,12 +1,12 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import { checkboxMarkSvg, checkboxOutlineSvg } from './checkbox-mark.js';
 import type { FieldFill, Pen } from './fill.js';
-import { FONT_FAMILIES, type FontKey } from './fonts.js';
+import { FONT_FAMILIES, type FontKey } from '../image/fonts.js';
 import { handwrittenDigitSvg } from './handwritten-digits.js';
 import type { EntrySlot, Layout, Printed } from './layout-model.js';
 import type { Rng } from './prng.js';
 import { signatureSvg } from './signature-strokes.js';
-import { escapeXml, gray, n, svgDocument } from './svg.js';
+import { escapeXml, gray, n, svgDocument } from '../image/svg.js';
 import { estimateTextWidth, fitFontSize } from './text-metrics.js';
 
 function textEl(x: number, y: number, size: number, font: FontKey, body: string, extra = ''): string {

@@ -1,7 +1,7 @@
 import sharp from 'sharp';
-import type { GrayImage } from '../page/raster.js';
-import { fromRawBuffer } from '../page/raster.js';
-import { useBundledFonts } from './fonts.js';
+import type { GrayImage } from '../image/raster.js';
+import { fromRawBuffer } from '../image/raster.js';
+import { useBundledFonts } from '../image/fonts.js';
 
 /**
  * Render an SVG page to a grayscale raster at 1 SVG unit = 1 pixel, with the bundled fonts. Pages are drawn in

@@ -1,4 +1,4 @@
-import type { GrayImage } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
 import { drawPen, fillLayout, type FillMode } from './fill.js';
 import type { Layout } from './layout-model.js';
 import { pageSvg } from './page-svg.js';

@@ -1,6 +1,6 @@
 import sharp from 'sharp';
-import type { GrayImage } from '../page/raster.js';
-import { createGray, fromRawBuffer, sharpFromGray } from '../page/raster.js';
+import type { GrayImage } from '../image/raster.js';
+import { createGray, fromRawBuffer, sharpFromGray } from '../image/raster.js';
 import { invertH, type Homography } from './homography.js';
 import type { Rng } from './prng.js';
 import type { ScanParams } from './scan-params.js';
@@ -9,7 +9,7 @@ import type { ScanParams } from './scan-params.js';
  * Resample the reference page into the scan's pixel grid through `h` (reference → output), bilinear, with pixel
  * centres at i + 0.5 so that box corners and pixels follow the same mapping. Outside the sheet is white.
  */
-export function warpGray(src: GrayImage, h: Homography, width: number, height: number): GrayImage {
+export function warpByHomography(src: GrayImage, h: Homography, width: number, height: number): GrayImage {
   const inv = invertH(h);
   const out = createGray(width, height);
   const { data: s, width: sw, height: sh } = src;
@@ -77,7 +77,7 @@ export function addScanNoise(img: GrayImage, p: ScanParams, rng: Rng): void {
 
 /** The whole simulated scan of a rendered reference page. */
 export async function simulateScan(page: GrayImage, p: ScanParams, rng: Rng): Promise<GrayImage> {
-  let img = warpGray(page, p.transform, p.width, p.height);
+  let img = warpByHomography(page, p.transform, p.width, p.height);
   if (p.blurSigma >= 0.3) {
     const { data, info } = await sharpFromGray(img).blur(p.blurSigma).toColourspace('b-w').raw().toBuffer({ resolveWithObject: true });
     img = fromRawBuffer(data, info.width, info.height, info.channels);

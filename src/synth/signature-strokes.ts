@@ -1,6 +1,6 @@
-import type { Box } from '../page/geometry.js';
+import type { Box } from '../image/geometry.js';
 import type { Rng } from './prng.js';
-import { gray, n, smoothPath } from './svg.js';
+import { gray, n, smoothPath } from '../image/svg.js';
 
 /**
  * A made-up signature: a few connected loops moving left to right with a rising first stroke and an optional

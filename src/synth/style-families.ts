@@ -1,4 +1,4 @@
-import type { FontKey } from './fonts.js';
+import type { FontKey } from '../image/fonts.js';
 
 /**
  * Families of form styles for randomized layouts. Each family fixes how labels sit relative to entry areas and how

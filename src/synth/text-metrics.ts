@@ -1,4 +1,4 @@
-import type { FontKey } from './fonts.js';
+import type { FontKey } from '../image/fonts.js';
 
 /**
  * Estimated advance widths in em, per character class, for the bundled fonts. Measured by rendering each font's

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { failedLine, okLine, summarize } from '../../src/batch/sinks.js';
+import { failedLine, okLine } from '../../src/results/results-line.js';
+import { summarize } from '../../src/results/summary.js';
 import { documentResult, field } from '../review/fixture.js';
 
 describe('summary straight-through', () => {

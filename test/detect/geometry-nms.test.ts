@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { nonMaxSuppression } from '../../src/detect/nms.js';
-import { iou } from '../../src/page/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 
 // Source: the definition IoU = |A ∩ B| / |A ∪ B| (areas in the continuous pixel convention, a box covers [x, x+w)).
 describe('IoU worked by hand from the definition', () => {

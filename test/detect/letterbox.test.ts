@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { letterbox, letterboxGeometry } from '../../src/detect/letterbox.js';
-import { transformBox } from '../../src/page/geometry.js';
-import { createGray } from '../../src/page/raster.js';
+import { transformBox } from '../../src/image/geometry.js';
+import { createGray } from '../../src/image/raster.js';
 
 describe('letterbox geometry', () => {
   it('fits a square page into a 96x64 input, at the top-left or centred', () => {

@@ -5,7 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { loadDetector } from '../../src/detect/onnx-detector.js';
 import { FormgleanError } from '../../src/errors.js';
-import { type GrayImage, createGray } from '../../src/page/raster.js';
+import { type GrayImage, createGray } from '../../src/image/raster.js';
 
 // Real onnxruntime on tiny models built by test/fixtures/models/make_fixture_models.py: each reports the bounding
 // box of the dark pixels of its 96 x 64 input, so a square drawn on a page must come back at its page position.

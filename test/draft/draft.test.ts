@@ -1,9 +1,9 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { Detection } from '../../src/detect/types.js';
 import { expectedParts } from '../../src/locate/expected-boxes.js';
-import type { Box } from '../../src/page/geometry.js';
-import { iou } from '../../src/page/geometry.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import type { Box } from '../../src/image/geometry.js';
+import { iou } from '../../src/image/geometry.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/schema/draft.js';
 import { FormSchema } from '../../src/schema/definition.js';

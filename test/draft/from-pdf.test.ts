@@ -6,7 +6,7 @@ import { fieldKey } from '../../src/draft/from-pdf/naming.js';
 import { loadPdf, readPageWidgets } from '../../src/draft/from-pdf/widgets.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { checkSchemaConsistency } from '../../src/schema/consistency.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 
 const DIR = path.resolve('test/fixtures/real-forms/pdfs');
 

@@ -5,7 +5,7 @@ import { Command } from 'commander';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { addDraftSubcommand } from '../../src/cli/schema-draft.js';
-import { iou } from '../../src/page/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 import { loadSchema, referenceImagePath } from '../../src/schema/load.js';
 
 async function run(args: string[]): Promise<void> {

@@ -9,7 +9,7 @@ import { registerDetectorCommand } from '../../src/cli/detector.js';
 import { FormgleanError } from '../../src/errors.js';
 import { loadCocoDataset } from '../../src/eval/detection-dataset.js';
 import type { DetectorEvalReport } from '../../src/eval/detection-run.js';
-import { createGray, grayToPng } from '../../src/page/raster.js';
+import { createGray, grayToPng } from '../../src/image/raster.js';
 
 // End to end on real pixels with real onnxruntime: the fixture model square-scores.onnx (see
 // test/fixtures/models/make_fixture_models.py) reports the dark square of a page as a checkbox (0.9), the same

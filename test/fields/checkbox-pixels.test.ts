@@ -5,7 +5,7 @@ import { simulateScan } from '../../src/synth/scan-simulate.js';
 import { REFERENCE_DPI } from '../../src/synth/layout-model.js';
 import { composeH, rotateH, translateH } from '../../src/synth/homography.js';
 import { Rng } from '../../src/synth/prng.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 import { measureMark } from '../../src/read/marks.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import { DEFAULT_CHECKED_ABOVE, DEFAULT_UNCHECKED_BELOW } from '../../src/fields/mark-decision.js';

@@ -1,13 +1,13 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { escapeXml, svgDocument } from '../../src/synth/svg.js';
+import { escapeXml, svgDocument } from '../../src/image/svg.js';
 import { rasterizeSvg } from '../../src/synth/rasterize.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import { scoreField } from '../../src/fields/scoring.js';
 import type { FieldType } from '../../src/fields/types.js';
-import type { FontKey } from '../../src/synth/fonts.js';
-import { FONT_FAMILIES } from '../../src/synth/fonts.js';
+import type { FontKey } from '../../src/image/fonts.js';
+import { FONT_FAMILIES } from '../../src/image/fonts.js';
 import { TODAY } from './context.js';
 
 /**

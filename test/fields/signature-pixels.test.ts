@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { signatureSvg } from '../../src/synth/signature-strokes.js';
-import { gray, svgDocument } from '../../src/synth/svg.js';
+import { gray, svgDocument } from '../../src/image/svg.js';
 import { rasterizeSvg } from '../../src/synth/rasterize.js';
 import { drawScanParams } from '../../src/synth/scan-params.js';
 import { simulateScan } from '../../src/synth/scan-simulate.js';

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Detection } from '../../src/detect/types.js';
 import { locateFields } from '../../src/locate/locate-fields.js';
-import { IDENTITY } from '../../src/page/geometry.js';
+import { IDENTITY } from '../../src/image/geometry.js';
 import { parseSchemaText } from '../../src/schema/load.js';
 
 const schema = parseSchemaText(

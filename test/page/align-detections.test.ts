@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { alignByDetections } from '../../src/page/align-detections.js';
 import type { LayoutRegion } from '../../src/page/alignment.js';
 import type { Detection } from '../../src/detect/types.js';
-import { applyAffine, transformBox } from '../../src/page/geometry.js';
-import type { Affine } from '../../src/page/geometry.js';
+import { applyAffine, transformBox } from '../../src/image/geometry.js';
+import type { Affine } from '../../src/image/geometry.js';
 import { fitTransform } from '../../src/page/fit.js';
 
 const CLASSES = ['text_entry', 'checkbox', 'signature_area', 'comb_field'];

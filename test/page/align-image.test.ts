@@ -2,9 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { alignByImage } from '../../src/page/align-image.js';
 import { alignPage } from '../../src/page/align.js';
 import { deskew } from '../../src/page/deskew.js';
-import { applyAffine, composeAffine, invertAffine } from '../../src/page/geometry.js';
-import { rotateGray } from '../../src/page/warp.js';
-import type { Affine, Point } from '../../src/page/geometry.js';
+import { applyAffine, composeAffine, invertAffine } from '../../src/image/geometry.js';
+import { rotateGray } from '../../src/image/warp.js';
+import type { Affine, Point } from '../../src/image/geometry.js';
 import { filledRealForm, scanLike } from './fill-real-form.js';
 import { realBlank } from './real-form.js';
 

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { alignPage } from '../../src/page/align.js';
 import { dropoutForm, formMask } from '../../src/page/dropout.js';
-import { composeAffine, invertAffine } from '../../src/page/geometry.js';
+import { composeAffine, invertAffine } from '../../src/image/geometry.js';
 import { normalizePage } from '../../src/page/normalize.js';
-import { rotateGray, warpGray } from '../../src/page/warp.js';
+import { rotateGray, warpGray } from '../../src/image/warp.js';
 import { entriesOnly, filledRealForm, inkRecovery, scanLike } from './fill-real-form.js';
 import { realBlank } from './real-form.js';
 

@@ -1,7 +1,7 @@
 import sharp from 'sharp';
-import type { Affine } from '../../src/page/geometry.js';
-import { fromRawBuffer } from '../../src/page/raster.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import type { Affine } from '../../src/image/geometry.js';
+import { fromRawBuffer } from '../../src/image/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 import { REAL_BLANK } from './real-form.js';
 
 /**

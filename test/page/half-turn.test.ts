@@ -2,7 +2,7 @@ import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { confirmHalfTurn } from '../../src/page/half-turn.js';
 import { normalizePage } from '../../src/page/normalize.js';
-import { fromRawBuffer } from '../../src/page/raster.js';
+import { fromRawBuffer } from '../../src/image/raster.js';
 import { filledRealForm } from './fill-real-form.js';
 import { realBlank } from './real-form.js';
 

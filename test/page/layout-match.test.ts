@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { alignByImage } from '../../src/page/align-image.js';
 import { matchLayout } from '../../src/page/layout-match.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { filledRealForm, scanLike } from './fill-real-form.js';
 import { realBlank } from './real-form.js';
 

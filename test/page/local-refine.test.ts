@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import type { Affine } from '../../src/page/geometry.js';
-import { composeAffine, iou, transformBox } from '../../src/page/geometry.js';
+import type { Affine } from '../../src/image/geometry.js';
+import { composeAffine, iou, transformBox } from '../../src/image/geometry.js';
 import { refineRegion } from '../../src/page/local-refine.js';
-import { translation } from '../../src/page/warp.js';
+import { translation } from '../../src/image/warp.js';
 import { filledRealForm, scanLike } from './fill-real-form.js';
 import { realBlank } from './real-form.js';
 

@@ -1,7 +1,7 @@
 import path from 'node:path';
 import sharp from 'sharp';
-import { fromRawBuffer, grayFromImage } from '../../src/page/raster.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import { fromRawBuffer, grayFromImage } from '../../src/image/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 
 /** The real blank form used across page tests (public domain; see test/fixtures/real-forms/README.md). */
 export const REAL_BLANK = path.resolve(import.meta.dirname, '../fixtures/real-forms/irs-w4-2025-page1-blank.png');

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { iou } from '../../src/page/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 import { snapToFrame, snapToRules } from '../../src/page/snap-box.js';
 import { realBlank } from './real-form.js';
 

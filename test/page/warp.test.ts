@@ -1,8 +1,8 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { applyAffine } from '../../src/page/geometry.js';
-import { fromRawBuffer } from '../../src/page/raster.js';
-import { rotateGray, rotateQuarter } from '../../src/page/warp.js';
+import { applyAffine } from '../../src/image/geometry.js';
+import { fromRawBuffer } from '../../src/image/raster.js';
+import { rotateGray, rotateQuarter } from '../../src/image/warp.js';
 import { REAL_BLANK } from './real-form.js';
 
 describe('rotateQuarter against libvips', () => {

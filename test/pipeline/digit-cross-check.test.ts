@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getFieldType } from '../../src/fields/registry.js';
 import type { TextReading } from '../../src/fields/types.js';
 import type { LocatedField } from '../../src/locate/locate-fields.js';
-import { IDENTITY } from '../../src/page/geometry.js';
+import { IDENTITY } from '../../src/image/geometry.js';
 import { crossCheckDigits, DIGIT_READERS_DISAGREE, DOUBTFUL_OCR, isDigitComb } from '../../src/pipeline/digit-cross-check.js';
 import { ocrFactor } from '../../src/fields/scoring.js';
 import { buildFieldResult } from '../../src/pipeline/field-result.js';

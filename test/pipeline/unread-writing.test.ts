@@ -1,7 +1,7 @@
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 import { getFieldType } from '../../src/fields/registry.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { readLocatedField, UNREAD_INK } from '../../src/pipeline/read-field.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { FieldSpec } from '../../src/schema/definition.js';

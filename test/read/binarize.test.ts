@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { binarizeOtsu, histogram, otsuThreshold } from '../../src/read/cleanup/otsu.js';
-import { binarizeSauvola } from '../../src/read/cleanup/sauvola.js';
-import { createGray, type GrayImage } from '../../src/page/raster.js';
+import { binarizeOtsu, histogram, otsuThreshold } from '../../src/image/otsu.js';
+import { binarizeSauvola } from '../../src/image/sauvola.js';
+import { createGray, type GrayImage } from '../../src/image/raster.js';
 
 function imageOf(values: number[], width: number): GrayImage {
   return { width, height: values.length / width, data: Uint8Array.from(values) };

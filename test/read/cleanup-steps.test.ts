@@ -1,15 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import { renderCell } from './render-cell.js';
 import { cropField } from '../../src/read/crop.js';
-import { binarizeOtsu } from '../../src/read/cleanup/otsu.js';
+import { binarizeOtsu } from '../../src/image/otsu.js';
 import { removeRuledLines } from '../../src/read/cleanup/line-removal.js';
-import { filterComponents, labelComponents } from '../../src/read/cleanup/components.js';
+import { filterComponents, labelComponents } from '../../src/image/components.js';
 import { isolateTextBand, textBands } from '../../src/read/cleanup/text-band.js';
-import { estimateSkew, rotateGray, uprightBox } from '../../src/read/cleanup/deskew.js';
+import { estimateCropSkew, rotateCrop, uprightBox } from '../../src/read/cleanup/deskew.js';
 import { maskedGray } from '../../src/read/cleanup/pipeline.js';
 import { characterHeight, upscaleToCharacterHeight } from '../../src/read/cleanup/upscale.js';
-import { rowProfile, INK } from '../../src/read/cleanup/binary.js';
-import { createGray, type GrayImage } from '../../src/page/raster.js';
+import { rowProfile, INK } from '../../src/image/binary.js';
+import { createGray, type GrayImage } from '../../src/image/raster.js';
 
 function drawRect(img: GrayImage, x: number, y: number, w: number, h: number): void {
   for (let yy = y; yy < y + h; yy++) for (let xx = x; xx < x + w; xx++) img.data[yy * img.width + xx] = INK;
@@ -89,9 +89,9 @@ describe('deskew (projection-profile method)', () => {
     const crop = cropField(page, { x: box.x - 20, y: box.y - 30, w: box.w + 40, h: box.h + 60 }, 0);
     const bin = binarizeOtsu(crop.image);
     // sharp rotates clockwise on screen for positive angles, so lines fall to the right: +3 degrees.
-    expect(Math.abs(estimateSkew(bin) - 3)).toBeLessThanOrEqual(0.5);
-    const straight = binarizeOtsu(rotateGray(crop.image, estimateSkew(bin)));
-    expect(Math.abs(estimateSkew(straight))).toBeLessThanOrEqual(0.5);
+    expect(Math.abs(estimateCropSkew(bin) - 3)).toBeLessThanOrEqual(0.5);
+    const straight = binarizeOtsu(rotateCrop(crop.image, estimateCropSkew(bin)));
+    expect(Math.abs(estimateCropSkew(straight))).toBeLessThanOrEqual(0.5);
   });
 });
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { contextCrop, cropField, paddingPixels } from '../../src/read/crop.js';
-import { createGray } from '../../src/page/raster.js';
+import { createGray } from '../../src/image/raster.js';
 
 /** A page whose pixel values encode their column, so a crop's position can be read back from its pixels. */
 function columnCoded(width: number, height: number) {

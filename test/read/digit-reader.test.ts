@@ -2,7 +2,7 @@ import { writeFile, mkdtemp } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cropGray } from '../../src/page/raster.js';
+import { cropGray } from '../../src/image/raster.js';
 import { cropField } from '../../src/read/crop.js';
 import { cellInput } from '../../src/read/digit-cell.js';
 import { readDigitComb } from '../../src/read/digit-comb.js';

@@ -1,6 +1,6 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { cropField } from '../../src/read/crop.js';
 import { measureMark } from '../../src/read/marks.js';
 import { DD293_BLANK, filledBlank } from '../real-form/blank-variant.js';

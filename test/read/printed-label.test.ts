@@ -1,11 +1,11 @@
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { TextReading } from '../../src/fields/types.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { withoutPrintedLabel } from '../../src/read/printed-label.js';
 import { readTextField } from '../../src/read/read-text.js';
-import { useBundledFonts } from '../../src/synth/fonts.js';
+import { useBundledFonts } from '../../src/image/fonts.js';
 
 afterAll(closeSharedOcrEngine);
 

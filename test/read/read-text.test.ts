@@ -5,7 +5,7 @@ import { readTextField, readVariant } from '../../src/read/read-text.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { ADAPTIVE, COMB_CELLS, STANDARD } from '../../src/read/variants.js';
 import { cropField } from '../../src/read/crop.js';
-import { binarizeOtsu } from '../../src/read/cleanup/otsu.js';
+import { binarizeOtsu } from '../../src/image/otsu.js';
 import { removeRuledLines } from '../../src/read/cleanup/line-removal.js';
 import { ruleLengths } from '../../src/read/cleanup/pipeline.js';
 import { combCells, joinCells } from '../../src/read/comb-cells.js';

@@ -1,7 +1,7 @@
 import sharp from 'sharp';
-import { useBundledFonts } from '../../src/synth/fonts.js';
-import type { Box } from '../../src/page/geometry.js';
-import { grayFromImage, type GrayImage } from '../../src/page/raster.js';
+import { useBundledFonts } from '../../src/image/fonts.js';
+import type { Box } from '../../src/image/geometry.js';
+import { grayFromImage, type GrayImage } from '../../src/image/raster.js';
 
 /** An invented form fragment drawn for a test: a printed label, a boxed cell holding a value, ruled lines. */
 export interface CellSpec {

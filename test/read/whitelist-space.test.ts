@@ -1,8 +1,8 @@
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { closeSharedOcrEngine, sharedOcrEngine, whitelist } from '../../src/read/ocr-engine.js';
-import { useBundledFonts } from '../../src/synth/fonts.js';
+import { useBundledFonts } from '../../src/image/fonts.js';
 
 afterAll(closeSharedOcrEngine);
 

@@ -1,8 +1,8 @@
-import type { Affine, Point } from '../../src/page/geometry.js';
-import { applyAffine, composeAffine, invertAffine } from '../../src/page/geometry.js';
+import type { Affine, Point } from '../../src/image/geometry.js';
+import { applyAffine, composeAffine, invertAffine } from '../../src/image/geometry.js';
 import { fitTransform } from '../../src/page/fit.js';
 import { normalizePage } from '../../src/page/normalize.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 import type { DocumentResult } from '../../src/result/document.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
 import { fieldRegions } from '../../src/schema/consistency.js';

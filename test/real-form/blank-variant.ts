@@ -4,7 +4,7 @@ import path from 'node:path';
 import sharp from 'sharp';
 import { extractDocument, loadDetector } from '../../src/api.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
-import { grayFromImage, type GrayImage } from '../../src/page/raster.js';
+import { grayFromImage, type GrayImage } from '../../src/image/raster.js';
 import type { DocumentResult } from '../../src/result/document.js';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
 import { encodePage } from '../../src/synth/encode-page.js';

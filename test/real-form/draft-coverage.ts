@@ -1,6 +1,6 @@
 import type { Detector } from '../../src/detect/types.js';
-import type { Box } from '../../src/page/geometry.js';
-import { iou } from '../../src/page/geometry.js';
+import type { Box } from '../../src/image/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 import { sharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { fieldRegions } from '../../src/schema/consistency.js';
 import type { FormSchema } from '../../src/schema/definition.js';

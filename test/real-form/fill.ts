@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { writeFileAtomic, writeJsonAtomic } from '../../src/io/atomic-write.js';
-import type { GrayImage } from '../../src/page/raster.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
 import { CocoBuilder } from '../../src/synth/coco.js';
 import { encodePage } from '../../src/synth/encode-page.js';

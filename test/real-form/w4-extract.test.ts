@@ -4,7 +4,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
 import { TruthDocument } from '../../src/eval/score-input.js';
 import { scoreDocument, type ScoredField } from '../../src/eval/score.js';
-import { iou } from '../../src/page/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { encodePage } from '../../src/synth/encode-page.js';
 import { alignmentError, referenceToSource } from './alignment-error.js';

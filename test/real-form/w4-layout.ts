@@ -1,5 +1,5 @@
 import path from 'node:path';
-import type { Box } from '../../src/page/geometry.js';
+import type { Box } from '../../src/image/geometry.js';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
 import type { FieldSpec } from '../../src/schema/definition.js';
 import { fieldRegions } from '../../src/schema/consistency.js';

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { loadCocoDataset } from '../../src/eval/detection-dataset.js';
 import { referenceImagePath } from '../../src/schema/load.js';
 import { fieldRegions } from '../../src/schema/consistency.js';
-import type { GrayImage } from '../../src/page/raster.js';
+import type { GrayImage } from '../../src/image/raster.js';
 import { DETECTOR_CLASSES } from '../../src/synth/layout-model.js';
 import { renderW4Page, w4Blank } from './fill.js';
 import { loadW4Schema, W4_BLANK, W4_BLANK_COCO, w4BlankCoco, w4Layout } from './w4-layout.js';

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeSharedOcrEngine } from '../../src/api.js';
-import { iou } from '../../src/page/geometry.js';
+import { iou } from '../../src/image/geometry.js';
 import { filledRealForm } from '../page/fill-real-form.js';
 import { extractWithShippedModel, schemaOnBlank } from './blank-variant.js';
 

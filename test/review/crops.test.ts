@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
-import { createGray } from '../../src/page/raster.js';
+import { createGray } from '../../src/image/raster.js';
 import { writeReviewCrops } from '../../src/review/crops.js';
 import { writeReviewQueue } from '../../src/review/queue-write.js';
 import { readReviewQueue } from '../../src/review/queue-read.js';

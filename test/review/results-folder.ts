@@ -2,7 +2,9 @@ import { createHash } from 'node:crypto';
 import { mkdtemp, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { documentJsonName, okLine, writeBatchOutputs } from '../../src/batch/sinks.js';
+import { writeIndex } from '../../src/results/index-write.js';
+import { documentJsonName } from '../../src/results/layout.js';
+import { okLine } from '../../src/results/results-line.js';
 import type { DocumentResult } from '../../src/result/document.js';
 import { documentResult, field } from './fixture.js';
 
@@ -42,6 +44,6 @@ export async function makeResultsFolder(count: number, prefix = 'fg-review-'): P
     // Plain writes: a fixture needs no crash safety, and fsync per file would slow large fixtures.
     await writeFile(path.join(dir, documentJsonName(doc.document.id)), JSON.stringify(doc, null, 2) + '\n');
   }
-  await writeBatchOutputs(dir, docs.map(okLine));
+  await writeIndex(dir, docs.map(okLine));
   return { dir, docs };
 }

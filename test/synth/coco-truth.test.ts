@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import type { CocoDataset } from '../../src/synth/coco.js';
 import { generateSamples } from '../../src/synth/generate.js';
 import type { PageTruth } from '../../src/synth/truth.js';

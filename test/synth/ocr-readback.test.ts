@@ -3,7 +3,7 @@ import path from 'node:path';
 import { distance } from 'fastest-levenshtein';
 import { createWorker, OEM, PSM } from 'tesseract.js';
 import { afterAll, describe, expect, it } from 'vitest';
-import { cropGray, grayToPng } from '../../src/page/raster.js';
+import { cropGray, grayToPng } from '../../src/image/raster.js';
 import { demoLayout } from '../../src/synth/layouts.js';
 import { renderPage } from '../../src/synth/render-page.js';
 

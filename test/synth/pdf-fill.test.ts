@@ -4,7 +4,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { TruthDocument } from '../../src/eval/score-input.js';
 import { getFieldType } from '../../src/fields/registry.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { checkSchemaAgainstClasses } from '../../src/schema/consistency.js';
 import { loadSchema } from '../../src/schema/load.js';
 import type { CocoDataset } from '../../src/synth/coco.js';

@@ -1,8 +1,8 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { createGray, fromRawBuffer, sharpFromGray } from '../../src/page/raster.js';
+import { createGray, fromRawBuffer, sharpFromGray } from '../../src/image/raster.js';
 import { applyH, composeH, invertH, rotateH, scaleH, translateH } from '../../src/synth/homography.js';
-import { warpGray } from '../../src/synth/scan-simulate.js';
+import { warpByHomography } from '../../src/synth/scan-simulate.js';
 
 /** Centroid of dark pixels. */
 function inkCentroid(img: { width: number; height: number; data: Uint8Array }): [number, number] {
@@ -35,7 +35,7 @@ describe('scan geometry', () => {
     const byVips = fromRawBuffer(data, info.width, info.height, info.channels);
     const [vx, vy] = inkCentroid(byVips);
     const h = composeH(translateH(-200, -150), rotateH(angle), translateH(info.width / 2, info.height / 2));
-    const ours = warpGray(src, h, info.width, info.height);
+    const ours = warpByHomography(src, h, info.width, info.height);
     const [ox, oy] = inkCentroid(ours);
     const [px, py] = applyH(h, 310, 70);
     expect(Math.hypot(ox - vx, oy - vy)).toBeLessThan(1.5);
@@ -45,7 +45,7 @@ describe('scan geometry', () => {
   it('warped pixels land where the transform sends their coordinates (the rule truth boxes follow)', () => {
     const src = dotPage();
     const h = composeH(translateH(-200, -150), [1, 0, 0, 0, 1, 0, 0.0002, -0.0001, 1], scaleH(1.25), rotateH(-2.5), translateH(250, 190));
-    const out = warpGray(src, h, 500, 380);
+    const out = warpByHomography(src, h, 500, 380);
     const [cx, cy] = inkCentroid(out);
     const [px, py] = applyH(h, 310, 70);
     expect(Math.hypot(cx - px, cy - py)).toBeLessThan(1);
@@ -58,7 +58,7 @@ describe('scan geometry', () => {
     const src = dotPage();
     const { data, info } = await sharpFromGray(src).resize(600, 450, { kernel: 'linear' }).raw().toBuffer({ resolveWithObject: true });
     const [vx, vy] = inkCentroid(fromRawBuffer(data, info.width, info.height, info.channels));
-    const [ox, oy] = inkCentroid(warpGray(src, scaleH(1.5), 600, 450));
+    const [ox, oy] = inkCentroid(warpByHomography(src, scaleH(1.5), 600, 450));
     expect(Math.hypot(ox - vx, oy - vy)).toBeLessThan(1);
     expect(Math.hypot(ox - 465, oy - 105)).toBeLessThan(1);
   });

@@ -1,7 +1,7 @@
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { FONT_FAMILIES, useBundledFonts, type FontKey } from '../../src/synth/fonts.js';
-import { escapeXml, svgDocument } from '../../src/synth/svg.js';
+import { FONT_FAMILIES, useBundledFonts, type FontKey } from '../../src/image/fonts.js';
+import { escapeXml, svgDocument } from '../../src/image/svg.js';
 import { estimateTextWidth } from '../../src/synth/text-metrics.js';
 
 /** Width of the ink of a text rendered by librsvg (inside sharp) with the bundled fonts. */

@@ -7,7 +7,7 @@ import { InferenceSession, Tensor } from '../../src/detect/onnx-runtime.js';
 import { afterAll, describe, expect, it } from 'vitest';
 import { loadDetector } from '../../src/detect/onnx-detector.js';
 import { readOnnxMetadata } from '../../src/detect/onnx-metadata.js';
-import { grayFromImage } from '../../src/page/raster.js';
+import { grayFromImage } from '../../src/image/raster.js';
 import { generateSamples } from '../../src/synth/generate.js';
 import { PYTHON, missingPythonModules, skipUnlessPresent } from '../support/requirements.js';
 

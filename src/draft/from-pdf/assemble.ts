@@ -1,4 +1,4 @@
-import type { Box } from '../../page/geometry.js';
+import type { Box } from '../../image/geometry.js';
 import { boxTuple, unionBox } from '../../synth/box-tuple.js';
 import type { SchemaFieldValue, SchemaValue } from '../../synth/schema-from-layout.js';
 import { guessTextType } from './guess-type.js';

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { configError } from '../../errors.js';
 import { PDF_DPI, renderPdfPage } from '../../input/pdf.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
-import { grayToPng, type GrayImage } from '../../page/raster.js';
+import { grayToPng, type GrayImage } from '../../image/raster.js';
 import { FormSchema } from '../../schema/definition.js';
 import { formatJsonPath } from '../../schema/load.js';
 import type { SchemaValue } from '../../synth/schema-from-layout.js';

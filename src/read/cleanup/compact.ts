@@ -1,6 +1,6 @@
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
-import { columnProfile } from './binary.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray } from '../../image/raster.js';
+import { columnProfile } from '../../image/binary.js';
 
 /** Runs of columns holding ink (the glyph groups of a line), from the vertical projection profile. */
 export function inkColumns(img: GrayImage): { left: number; right: number }[] {

@@ -1,14 +1,14 @@
-import type { Box } from '../../page/geometry.js';
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
-import { INK } from './binary.js';
+import type { Box } from '../../image/geometry.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray } from '../../image/raster.js';
+import { INK } from '../../image/binary.js';
 
 /**
  * Skew angle of the text in a binary crop, degrees, positive when lines fall to the right (clockwise in image
  * coordinates). Projection-profile method (Postl 1986; Baird 1987): shear the ink by each candidate angle and keep
  * the one whose row histogram is sharpest (largest sum of squares). Searches +-maxDegrees in `step` increments.
  */
-export function estimateSkew(img: GrayImage, maxDegrees = 5, step = 0.25): number {
+export function estimateCropSkew(img: GrayImage, maxDegrees = 5, step = 0.25): number {
   const xs: number[] = [], ys: number[] = [];
   for (let y = 0; y < img.height; y++)
     for (let x = 0; x < img.width; x++) if (img.data[y * img.width + x] === INK) { xs.push(x); ys.push(y); }
@@ -32,10 +32,12 @@ export function estimateSkew(img: GrayImage, maxDegrees = 5, step = 0.25): numbe
 }
 
 /**
- * Rotate a grayscale image by `degrees` about its centre (positive = counter-clockwise on screen, which undoes a
- * positive skew), bilinear, keeping the size; uncovered corners become paper.
+ * Rotate a crop by `degrees` about its centre, keeping its size (uncovered corners become paper), bilinear.
+ * Positive = counter-clockwise on screen, which undoes a positive skew from estimateCropSkew. Not to be confused
+ * with image/warp.ts rotateGray, the page-level turn: clockwise for positive angles, canvas grown to hold the page,
+ * and the transform returned.
  */
-export function rotateGray(img: GrayImage, degrees: number): GrayImage {
+export function rotateCrop(img: GrayImage, degrees: number): GrayImage {
   if (degrees === 0) return img;
   const a = (degrees * Math.PI) / 180;
   const cos = Math.cos(a), sin = Math.sin(a);
@@ -60,7 +62,7 @@ export function rotateGray(img: GrayImage, degrees: number): GrayImage {
 }
 
 /**
- * Where a field box lands after rotateGray(img, degrees), and how large the upright field inside it is. A box found
+ * Where a field box lands after rotateCrop(img, degrees), and how large the upright field inside it is. A box found
  * on a tilted page is the axis-aligned bound of a tilted rectangle of w x h:  W = w cos t + h sin t,
  * H = w sin t + h cos t; solving for w and h gives the upright rectangle, centred where the box's centre moves.
  * The tighter box keeps a neighbouring label, which the tilt brought into the bound, out of the field.

@@ -1,6 +1,6 @@
-import type { GrayImage } from '../../page/raster.js';
-import { INK, PAPER } from './binary.js';
-import { labelComponents } from './components.js';
+import type { GrayImage } from '../../image/raster.js';
+import { INK, PAPER } from '../../image/binary.js';
+import { labelComponents } from '../../image/components.js';
 
 export interface LineRemovalOptions {
   /** Shortest horizontal run counted as a ruled line, pixels. Default: 40 % of the crop width, at least 20 px. */

@@ -1,6 +1,6 @@
-import type { Box } from '../../page/geometry.js';
-import type { GrayImage } from '../../page/raster.js';
-import { createGray, cropGray } from '../../page/raster.js';
+import type { Box } from '../../image/geometry.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray, cropGray } from '../../image/raster.js';
 
 /** Add a border of `px` pixels of `fill` on every side. */
 export function padImage(img: GrayImage, px: number, fill = 255): GrayImage {

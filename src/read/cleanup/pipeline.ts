@@ -1,15 +1,15 @@
-import type { Box } from '../../page/geometry.js';
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
-import { binarizeOtsu } from './otsu.js';
-import { binarizeSauvola } from './sauvola.js';
-import { estimateSkew, rotateGray, uprightBox } from './deskew.js';
+import type { Box } from '../../image/geometry.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray } from '../../image/raster.js';
+import { binarizeOtsu } from '../../image/otsu.js';
+import { binarizeSauvola } from '../../image/sauvola.js';
+import { estimateCropSkew, rotateCrop, uprightBox } from './deskew.js';
 import { removeDashedRules, removeRuledLines } from './line-removal.js';
-import { filterComponents } from './components.js';
+import { filterComponents } from '../../image/components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
 import { padImage, trimAndPad } from './pad.js';
-import { INK, thresholdAt } from './binary.js';
+import { INK, thresholdAt } from '../../image/binary.js';
 import { compactGapsAlong } from './compact.js';
 import { characterHeight } from './upscale.js';
 
@@ -75,12 +75,12 @@ export function ruleLengths(ctx: Pick<CleanupContext, 'comb'>, inner: Box): { mi
 function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
   switch (step) {
     case 'deskew': {
-      const angle = ctx.skew ?? estimateSkew(s.binary ? s.image : binarizeOtsu(s.image));
+      const angle = ctx.skew ?? estimateCropSkew(s.binary ? s.image : binarizeOtsu(s.image));
       if (Math.abs(angle) < 0.2) return s;
-      const gray = rotateGray(s.gray, angle);
+      const gray = rotateCrop(s.gray, angle);
       const inner = uprightBox(s.inner, angle, s.image.width, s.image.height);
-      const printed = s.printed && invertedThreshold(rotateGray(s.printed, angle));
-      return { ...s, gray, image: s.binary ? thresholdAt(rotateGray(s.image, angle), 127) : gray, inner, printed };
+      const printed = s.printed && invertedThreshold(rotateCrop(s.printed, angle));
+      return { ...s, gray, image: s.binary ? thresholdAt(rotateCrop(s.image, angle), 127) : gray, inner, printed };
     }
     case 'otsu':
       return { ...s, image: binarizeOtsu(s.gray), binary: true };

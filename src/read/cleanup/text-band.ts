@@ -1,8 +1,8 @@
-import type { Box } from '../../page/geometry.js';
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
-import { INK, rowProfile } from './binary.js';
-import { labelComponents, typicalHeight } from './components.js';
+import type { Box } from '../../image/geometry.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray } from '../../image/raster.js';
+import { INK, rowProfile } from '../../image/binary.js';
+import { labelComponents, typicalHeight } from '../../image/components.js';
 
 /** A run of rows that hold ink: one text line, found from the horizontal projection profile. */
 export interface TextBand {

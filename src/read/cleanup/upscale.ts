@@ -1,7 +1,7 @@
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
-import { labelComponents, typicalHeight } from './components.js';
-import { thresholdAt } from './binary.js';
+import type { GrayImage } from '../../image/raster.js';
+import { createGray } from '../../image/raster.js';
+import { labelComponents, typicalHeight } from '../../image/components.js';
+import { thresholdAt } from '../../image/binary.js';
 
 /** Typical character height of a binary crop (see typicalHeight), or null when it holds no glyph-like ink. */
 export function characterHeight(img: GrayImage): number | null {

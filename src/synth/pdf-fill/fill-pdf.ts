@@ -5,7 +5,7 @@ import { draftFromPdf, formNameOf, writePdfSchema, type PdfSchemaDraft } from '.
 import { configError } from '../../errors.js';
 import { renderPdfPage } from '../../input/pdf.js';
 import { writeFileAtomic, writeJsonAtomic } from '../../io/atomic-write.js';
-import type { GrayImage } from '../../page/raster.js';
+import type { GrayImage } from '../../image/raster.js';
 import { boxTuple, unionBox } from '../box-tuple.js';
 import { CocoBuilder } from '../coco.js';
 import { encodePage } from '../encode-page.js';
@@ -16,7 +16,7 @@ import { pageSeed, Rng } from '../prng.js';
 import { rasterizeSvg } from '../rasterize.js';
 import { drawScanParams, type DegradeLevel, type ScanParams } from '../scan-params.js';
 import { simulateScan } from '../scan-simulate.js';
-import { svgDocument } from '../svg.js';
+import { svgDocument } from '../../image/svg.js';
 import type { PageTruth, TruthField } from '../truth.js';
 import { handwritingSvg, signaturesSvg, type CombCellDrawer } from './handwriting.js';
 import { planFill, type PdfFieldFill } from './plan.js';

@@ -1,10 +1,10 @@
-import type { Box } from '../../page/geometry.js';
+import type { Box } from '../../image/geometry.js';
 import { checkboxMarkSvg } from '../checkbox-mark.js';
 import type { Pen } from '../fill.js';
-import { FONT_FAMILIES, type FontKey } from '../fonts.js';
+import { FONT_FAMILIES, type FontKey } from '../../image/fonts.js';
 import type { Rng } from '../prng.js';
 import { signatureSvg } from '../signature-strokes.js';
-import { escapeXml, gray, n } from '../svg.js';
+import { escapeXml, gray, n } from '../../image/svg.js';
 import { fitFontSize } from '../text-metrics.js';
 import type { PdfFieldFill } from './plan.js';
 

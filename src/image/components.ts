@@ -1,5 +1,5 @@
-import type { Box } from '../../page/geometry.js';
-import type { GrayImage } from '../../page/raster.js';
+import type { Box } from './geometry.js';
+import type { GrayImage } from './raster.js';
 import { INK, PAPER } from './binary.js';
 
 export interface Component {

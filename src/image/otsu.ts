@@ -1,5 +1,5 @@
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
+import type { GrayImage } from './raster.js';
+import { createGray } from './raster.js';
 import { thresholdAt } from './binary.js';
 
 /** 256-bin histogram of a grayscale image. */

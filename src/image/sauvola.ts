@@ -1,5 +1,5 @@
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
+import type { GrayImage } from './raster.js';
+import { createGray } from './raster.js';
 import { INK, PAPER } from './binary.js';
 
 export interface SauvolaOptions {

@@ -1,5 +1,5 @@
-import type { GrayImage } from '../../page/raster.js';
-import { createGray } from '../../page/raster.js';
+import type { GrayImage } from './raster.js';
+import { createGray } from './raster.js';
 
 /**
  * Binary images are GrayImages holding only 0 (ink) and 255 (paper), so every step stays a plain GrayImage
