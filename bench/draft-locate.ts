@@ -21,7 +21,7 @@ import { refineRegion } from '../src/page/local-refine.js';
 import { normalizePage } from '../src/page/normalize.js';
 import { grayFromImage } from '../src/image/raster.js';
 import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
-import { draftSchema } from '../src/schema/draft.js';
+import { draftSchema } from '../src/draft/from-image.js';
 import { loadSchema, referenceImagePath } from '../src/schema/load.js';
 
 const args = process.argv.slice(2);

@@ -6,7 +6,7 @@
  *  (a) detection: per-class AP@0.5 and recall at the operating threshold on the filled pages, and on the blank itself;
  *  (b) extraction with the hand-labelled schema: field location recall (IoU >= 0.5), alignment error of the schema's
  *      regions against the scan's true transform, exact match of read values per type (src/eval/score.ts);
- *  (c) schema drafting on the blank (src/schema/draft.ts with the detector and OCR reading labels): share of the
+ *  (c) schema drafting on the blank (src/draft/from-image.ts with the detector and OCR reading labels): share of the
  *      labelled entry areas the drafted schema covers at IoU >= 0.5.
  * These figures describe a layout no generator drew; report them apart from the synthetic ones.
  *

@@ -12,8 +12,8 @@ import { renderOverlay } from '../page/overlay.js';
 import type { GrayImage } from '../image/raster.js';
 import { grayToPng } from '../image/raster.js';
 import { sharedOcrEngine, closeSharedOcrEngine } from '../read/ocr-engine.js';
-import type { DraftedField, SchemaDraft } from '../schema/draft.js';
-import { draftSchema } from '../schema/draft.js';
+import type { DraftedField, SchemaDraft } from '../draft/from-image.js';
+import { draftSchema } from '../draft/from-image.js';
 import type { SchemaValue } from '../synth/schema-from-layout.js';
 import { schemaYaml } from '../synth/schema-yaml.js';
 

@@ -12,7 +12,7 @@ import { normalizePage } from '../../src/page/normalize.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { extractDocument } from '../../src/pipeline/extract-document.js';
 import { closeSharedOcrEngine, sharedOcrEngine } from '../../src/read/ocr-engine.js';
-import { draftSchema } from '../../src/schema/draft.js';
+import { draftSchema } from '../../src/draft/from-image.js';
 import { loadSchema, referenceImagePath } from '../../src/schema/load.js';
 import { generateSamples } from '../../src/synth/generate.js';
 

@@ -5,7 +5,7 @@ import type { Box } from '../../src/image/geometry.js';
 import { iou } from '../../src/image/geometry.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { OcrEngine } from '../../src/read/ocr-engine.js';
-import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/schema/draft.js';
+import { cleanLabel, draftSchema, guessType, slugName, suppressAcrossClasses } from '../../src/draft/from-image.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { loadSchema } from '../../src/schema/load.js';
 import { W4_BLANK } from '../real-form/w4-layout.js';

@@ -4,7 +4,7 @@ import { iou } from '../../src/image/geometry.js';
 import { sharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { fieldRegions } from '../../src/schema/consistency.js';
 import type { FormSchema } from '../../src/schema/definition.js';
-import { draftSchema } from '../../src/schema/draft.js';
+import { draftSchema } from '../../src/draft/from-image.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
 import { w4Blank } from './fill.js';
 

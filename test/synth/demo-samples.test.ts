@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
-import { DEMO_SCANS, makeDemoSamples } from '../../src/synth/make-demo-samples.js';
+import { DEMO_SCANS, makeDemoSamples } from '../../tools/make-demo-samples.js';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
 let tmp: string | undefined;

@@ -7,7 +7,7 @@ import { snapToFrame, snapToRules } from '../page/snap-box.js';
 import type { GrayImage } from '../image/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
-import { FormSchema } from './definition.js';
+import { FormSchema } from '../schema/definition.js';
 
 /**
  * Schema drafting from a blank form: every detected entry area becomes a field; the printed phrase nearest to

@@ -1,12 +1,12 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import sharp from 'sharp';
-import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
-import { writeDemoSchema } from './demo-assets.js';
-import { encodePage, type PageFormat } from './encode-page.js';
-import type { FillMode } from './fill.js';
-import { DEMO_LAYOUTS, demoLayout, type DemoLayoutName } from './layouts.js';
-import { renderPage, type RenderedPage } from './render-page.js';
+import { writeFileAtomic, writeJsonAtomic } from '../src/io/atomic-write.js';
+import { writeDemoSchema } from '../src/synth/demo-assets.js';
+import { encodePage, type PageFormat } from '../src/synth/encode-page.js';
+import type { FillMode } from '../src/synth/fill.js';
+import { DEMO_LAYOUTS, demoLayout, type DemoLayoutName } from '../src/synth/layouts.js';
+import { renderPage, type RenderedPage } from '../src/synth/render-page.js';
 
 /**
  * Regenerates the demo assets identically: schemas/<layout>.yaml with their blank reference images, and the small
@@ -82,7 +82,7 @@ export async function makeDemoSamples(root: string): Promise<string[]> {
 }
 
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
-  const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+  const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
   const files = await makeDemoSamples(root);
   for (const f of files) process.stdout.write(`wrote ${path.relative(root, f)}\n`);
 }
