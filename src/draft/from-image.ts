@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
 import type { Box } from '../image/geometry.js';
-import { center, iou } from '../image/geometry.js';
+import { center, iou, unionBox } from '../image/geometry.js';
 import { inkThreshold } from '../image/ink.js';
 import { cropGray } from '../image/raster.js';
 import { snapToFrame, snapToRules } from '../page/snap-box.js';
@@ -250,12 +250,6 @@ interface Candidate {
   side: LabelSide | null;
   /** OCR text of the phrase as read (before cleaning), or null. */
   text: string | null;
-}
-
-function unionBox(boxes: readonly Box[]): Box {
-  const x = Math.min(...boxes.map((b) => b.x));
-  const y = Math.min(...boxes.map((b) => b.y));
-  return { x, y, w: Math.max(...boxes.map((b) => b.x + b.w)) - x, h: Math.max(...boxes.map((b) => b.y + b.h)) - y };
 }
 
 /**

@@ -1,5 +1,6 @@
 import sharp from 'sharp';
 import { useBundledFonts } from '../image/fonts.js';
+import { escapeXml } from '../image/svg.js';
 
 /** One class's curve: interpolated precision at recall 0, 0.01, ..., 1 (101 values). */
 export interface PrCurve {
@@ -19,9 +20,6 @@ const LEGEND_X = LEFT + PLOT + 24;
 // Universal Design", 2008; from memory).
 const COLOURS = ['#0072B2', '#D55E00', '#009E73', '#CC79A7', '#E69F00', '#56B4E9', '#F0E442', '#000000'];
 
-function escapeXml(s: string): string {
-  return s.replace(/[<>&"']/g, (c) => ({ '<': '&lt;', '>': '&gt;', '&': '&amp;', '"': '&quot;', "'": '&apos;' })[c]!);
-}
 
 /** Precision–recall plot as SVG: one curve per class, grid, axis labels, legend with AP@0.5. */
 export function prPlotSvg(curves: readonly PrCurve[], title: string): string {

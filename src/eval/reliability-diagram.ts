@@ -1,6 +1,7 @@
 import sharp from 'sharp';
 import { useBundledFonts } from '../image/fonts.js';
 import type { Reliability } from './reliability.js';
+import { escapeXml } from '../image/svg.js';
 
 /** Layout of the picture in pixels: the accuracy plot on top, a strip of bin counts below. */
 const W = 740;
@@ -13,9 +14,6 @@ const PLOT_H = 480;
 const STRIP_TOP = TOP + PLOT_H + 70;
 const STRIP_H = 100;
 
-function escapeXml(s: string): string {
-  return s.replace(/[<>&"']/g, (c) => ({ '<': '&lt;', '>': '&gt;', '&': '&amp;', '"': '&quot;', "'": '&apos;' })[c]!);
-}
 
 function fmt(v: number, digits: number): string {
   return v.toFixed(digits);

@@ -3,6 +3,7 @@ import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
 import path from 'node:path';
+import { escapeXml } from './svg.js';
 
 /**
  * Fonts for synthetic pages come from npm packages, not from the system, so that every machine draws the same
@@ -36,9 +37,6 @@ export function fontFolders(): string[] {
   ];
 }
 
-function escapeXml(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
-}
 
 let configured: string | undefined;
 

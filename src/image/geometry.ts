@@ -34,6 +34,13 @@ export function clampBox(b: Box, width: number, height: number): Box {
   return { x: x0, y: y0, w: Math.max(0, x1 - x0), h: Math.max(0, y1 - y0) };
 }
 
+/** Smallest box holding all the boxes (a choice group's area, a field of several parts); needs at least one box. */
+export function unionBox(boxes: readonly Box[]): Box {
+  const x = Math.min(...boxes.map((b) => b.x));
+  const y = Math.min(...boxes.map((b) => b.y));
+  return { x, y, w: Math.max(...boxes.map((b) => b.x + b.w)) - x, h: Math.max(...boxes.map((b) => b.y + b.h)) - y };
+}
+
 /** Round outward to integer pixels. */
 export function roundBox(b: Box): Box {
   const x0 = Math.floor(b.x);

@@ -2,6 +2,7 @@ import sharp from 'sharp';
 import { useBundledFonts } from '../image/fonts.js';
 import type { Box } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
+import { escapeXml } from '../image/svg.js';
 
 /**
  * Boxes and captions drawn over a page image, to check by eye what was found where (results, drafted schemas).
@@ -22,9 +23,6 @@ export interface LegendEntry {
   text: string;
 }
 
-function escapeXml(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-}
 
 function overlap(a: Box, b: Box): number {
   const w = Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x);

@@ -1,19 +1,11 @@
 import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
 import type { Alignment } from '../page/alignment.js';
 import type { Affine, Box } from '../image/geometry.js';
-import { transformBox } from '../image/geometry.js';
+import { transformBox, unionBox } from '../image/geometry.js';
 import type { LocatedField } from '../locate/locate-fields.js';
 import type { FieldResult } from '../result/document.js';
 import type { FieldReadOutcome } from './read-field.js';
 
-function unionBox(boxes: readonly Box[]): Box | null {
-  if (boxes.length === 0) return null;
-  const x0 = Math.min(...boxes.map((b) => b.x));
-  const y0 = Math.min(...boxes.map((b) => b.y));
-  const x1 = Math.max(...boxes.map((b) => b.x + b.w));
-  const y1 = Math.max(...boxes.map((b) => b.y + b.h));
-  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-}
 
 const round1 = (v: number) => Math.round(v * 10) / 10;
 
@@ -78,7 +70,8 @@ export function buildFieldResult(
   const locateReasons = located.parts.flatMap((p) => p.reasons);
   const reasons = [...new Set([...score.reasons, ...locateReasons])];
 
-  const pageBox = unionBox(located.parts.flatMap((p) => (p.box ? [p.box] : [])));
+  const found = located.parts.flatMap((p) => (p.box ? [p.box] : []));
+  const pageBox = found.length > 0 ? unionBox(found) : null;
   const srcBox = pageBox ? transformBox(toSource, pageBox) : null;
   const interp = outcome.interpretation;
   const raw = outcome.reading?.kind === 'text' ? outcome.reading.text : null;

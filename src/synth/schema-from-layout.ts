@@ -1,4 +1,5 @@
-import { boxTuple, unionBox } from './box-tuple.js';
+import { unionBox } from '../image/geometry.js';
+import { boxTuple } from './box-tuple.js';
 import type { DemoCalibration } from './demo-calibration.js';
 import type { Layout, LayoutField } from './layout-model.js';
 

@@ -1,4 +1,5 @@
-import { boxTuple, unionBox } from './box-tuple.js';
+import { unionBox } from '../image/geometry.js';
+import { boxTuple } from './box-tuple.js';
 import type { MarkKind } from './checkbox-mark.js';
 import type { FieldFill, FieldValue, FillMode, Pen } from './fill.js';
 import { scanBox } from './homography.js';

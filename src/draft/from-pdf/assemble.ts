@@ -1,5 +1,6 @@
 import type { Box } from '../../image/geometry.js';
-import { boxTuple, unionBox } from '../../synth/box-tuple.js';
+import { unionBox } from '../../image/geometry.js';
+import { boxTuple } from '../../synth/box-tuple.js';
 import type { SchemaFieldValue, SchemaValue } from '../../synth/schema-from-layout.js';
 import { guessTextType } from './guess-type.js';
 import { fieldKey, fieldLabel, UniqueKeys } from './naming.js';
