@@ -1,6 +1,7 @@
 import type { GrayImage } from './raster.js';
 import { createGray } from './raster.js';
 import { INK, PAPER } from './binary.js';
+import { summedArea, windowTotal } from './summed-area.js';
 
 export interface SauvolaOptions {
   /** Side of the square window in pixels (odd). Default: about the text height, from the crop's height. */
@@ -23,27 +24,15 @@ export function binarizeSauvola(img: GrayImage, options: SauvolaOptions = {}): G
   const r = options.r ?? 128;
   const win = options.window ?? Math.max(15, Math.round(h * 0.5) | 1);
   const half = Math.floor(win / 2);
-  const stride = w + 1;
-  const sum = new Float64Array(stride * (h + 1));
-  const sq = new Float64Array(stride * (h + 1));
-  for (let y = 0; y < h; y++) {
-    let rs = 0, rq = 0;
-    for (let x = 0; x < w; x++) {
-      const v = data[y * w + x];
-      rs += v;
-      rq += v * v;
-      sum[(y + 1) * stride + x + 1] = sum[y * stride + x + 1] + rs;
-      sq[(y + 1) * stride + x + 1] = sq[y * stride + x + 1] + rq;
-    }
-  }
+  const { sum, sumSq } = summedArea(data, w, h);
   const out = createGray(w, h);
   for (let y = 0; y < h; y++) {
     const y0 = Math.max(0, y - half), y1 = Math.min(h, y + half + 1);
     for (let x = 0; x < w; x++) {
       const x0 = Math.max(0, x - half), x1 = Math.min(w, x + half + 1);
       const n = (x1 - x0) * (y1 - y0);
-      const s = sum[y1 * stride + x1] - sum[y0 * stride + x1] - sum[y1 * stride + x0] + sum[y0 * stride + x0];
-      const q = sq[y1 * stride + x1] - sq[y0 * stride + x1] - sq[y1 * stride + x0] + sq[y0 * stride + x0];
+      const s = windowTotal(sum, w, x0, y0, x1, y1);
+      const q = windowTotal(sumSq, w, x0, y0, x1, y1);
       const m = s / n;
       const sd = Math.sqrt(Math.max(0, q / n - m * m));
       const t = m * (1 + k * (sd / r - 1));

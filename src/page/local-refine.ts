@@ -3,6 +3,7 @@ import { composeAffine, transformBox } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 import { cropGray } from '../image/raster.js';
 import { translation, warpGray } from '../image/warp.js';
+import { summedArea, windowTotal, type SummedArea } from '../image/summed-area.js';
 
 /**
  * Field-by-field touch-up of a page alignment. One affine transform cannot follow a sheet that lay curved or
@@ -37,36 +38,14 @@ function inkOf(img: GrayImage): Float32Array {
   return out;
 }
 
-/**
- * A plane of ink values with summed-area tables of its values and squares (Crow 1984; Lewis, "Fast Normalized
- * Cross-Correlation", 1995): the image-side sums of every shifted window come from four lookups, so the correlation
- * loop only multiplies template by image.
- */
-interface Plane {
+/** A plane of ink values with its summed-area tables: the image-side sums of every shifted window come from four
+ *  lookups (Lewis, "Fast Normalized Cross-Correlation", 1995), so the correlation loop only multiplies. */
+interface Plane extends SummedArea {
   data: Float32Array;
-  width: number;
-  height: number;
-  /** sum[y * (width + 1) + x] = sum of data over rows < y and columns < x. */
-  sum: Float64Array;
-  sumSq: Float64Array;
 }
 
 function plane(data: Float32Array, width: number, height: number): Plane {
-  const W = width + 1;
-  const sum = new Float64Array(W * (height + 1));
-  const sumSq = new Float64Array(W * (height + 1));
-  for (let y = 0; y < height; y++) {
-    let row = 0;
-    let rowSq = 0;
-    for (let x = 0; x < width; x++) {
-      const v = data[y * width + x];
-      row += v;
-      rowSq += v * v;
-      sum[(y + 1) * W + x + 1] = sum[y * W + x + 1] + row;
-      sumSq[(y + 1) * W + x + 1] = sumSq[y * W + x + 1] + rowSq;
-    }
-  }
-  return { data, width, height, sum, sumSq };
+  return { data, ...summedArea(data, width, height) };
 }
 
 /** Every second pixel of every second row, from (0, 0): what the coarse search sampled in place before. */
@@ -76,10 +55,6 @@ function decimate(data: Float32Array, width: number, height: number): { data: Fl
   const out = new Float32Array(w2 * h2);
   for (let y = 0; y < h2; y++) for (let x = 0; x < w2; x++) out[y * w2 + x] = data[2 * y * width + 2 * x];
   return { data: out, width: w2, height: h2 };
-}
-
-function windowSum(table: Float64Array, W: number, ox: number, oy: number, tw: number, th: number): number {
-  return table[(oy + th) * W + ox + tw] - table[oy * W + ox + tw] - table[(oy + th) * W + ox] + table[oy * W + ox];
 }
 
 /** Zero-mean normalized cross-correlation of the template plane with the image plane placed at (ox, oy). */
@@ -108,11 +83,10 @@ function ncc(tpl: Plane, img: Plane, ox: number, oy: number): number {
   }
   const sti = s0 + s1 + s2 + s3;
   const n = tw * th;
-  const W = tw + 1;
-  const st = tpl.sum[th * W + tw];
-  const vt = tpl.sumSq[th * W + tw] - (st * st) / n;
-  const si = windowSum(img.sum, iw + 1, ox, oy, tw, th);
-  const vi = windowSum(img.sumSq, iw + 1, ox, oy, tw, th) - (si * si) / n;
+  const st = windowTotal(tpl.sum, tw, 0, 0, tw, th);
+  const vt = windowTotal(tpl.sumSq, tw, 0, 0, tw, th) - (st * st) / n;
+  const si = windowTotal(img.sum, iw, ox, oy, ox + tw, oy + th);
+  const vi = windowTotal(img.sumSq, iw, ox, oy, ox + tw, oy + th) - (si * si) / n;
   if (vt <= 1e-6 || vi <= 1e-6) return -1;
   return (sti - (st * si) / n) / Math.sqrt(vt * vi);
 }
