@@ -32,12 +32,15 @@ export interface HalfTurnOptions {
    * registration on nearly every page.
    */
   uprightAbove?: number;
+  /** The page's registration score against this reference when the caller has already computed it (layout choice
+   *  registers the first page): then it is not registered again as it is. */
+  knownScore?: number;
 }
 
 /** Turn a normalized page half round if it then registers clearly better with the reference. Pure. */
 export function confirmHalfTurn(n: NormalizedPage, reference: GrayImage, options: HalfTurnOptions = {}): HalfTurnCheck {
   const levels = options.levels ?? [150, 300];
-  const score = alignByImage(n.image, reference, { levels }).score;
+  const score = options.knownScore ?? alignByImage(n.image, reference, { levels }).score;
   if (score >= (options.uprightAbove ?? 0.5)) return { page: n, flipped: false, score, turnedScore: Number.NaN };
   const turned = rotateQuarter(n.image, 180);
   const turnedScore = alignByImage(turned.image, reference, { levels }).score;

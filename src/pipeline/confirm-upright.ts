@@ -16,15 +16,16 @@ export interface DetectedPage {
  * turn an upright page over (DD Form 293, upright, was turned 180° by the text cue alone; see
  * test/pipeline/confirm-upright.test.ts). Registration with the blank does not read text. A page that is turned is
  * detected again. `pages[p]` is the form's page p; those before `from` are taken as settled. Returns the indices
- * (within `pages`) that were turned.
+ * (within `pages`) that were turned. `knownScore` is the first page's registration score when the layout choice
+ * already computed it against this schema's blank, so the page is not registered twice.
  */
-export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector, from = 0): Promise<number[]> {
+export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector, from = 0, knownScore?: number): Promise<number[]> {
   const turned: number[] = [];
   for (const [p, page] of pages.entries()) {
     if (p < from) continue;
     const reference = await referencePageImage(loaded, p);
     if (!reference) continue;
-    const check = confirmHalfTurn(page.normalized, reference);
+    const check = confirmHalfTurn(page.normalized, reference, { knownScore: p === 0 ? knownScore : undefined });
     if (!check.flipped) continue;
     page.normalized = check.page;
     page.detections = await detector.detect(check.page.image);

@@ -97,7 +97,9 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
       // chooses its layout again.
       const upright = options.orientation ?? true;
-      if (upright && (await confirmUpright([head], choice.schema, options.detector)).length > 0)
+      // The layout choice registered this page by image already; its score stands for the upright registration.
+      const known = choice.alignment.method.startsWith('image') ? choice.alignment.score : undefined;
+      if (upright && (await confirmUpright([head], choice.schema, options.detector, 0, known)).length > 0)
         choice = await chooseLayout(schemas, head.normalized.image, head.detections);
       const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
       const formPages = [head];
