@@ -3,26 +3,22 @@ import { constants } from 'node:fs';
 import { access, mkdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { Detector } from '../detect/types.js';
-import { configError, FormgleanError, oneLine } from '../errors.js';
-import { writeJsonAtomic } from '../io/atomic-write.js';
-import { extractForms } from '../pipeline/extract-document.js';
+import { configError, oneLine } from '../errors.js';
 import { referencePageImage } from '../pipeline/reference-images.js';
 import type { DigitReader } from '../read/digit-reader.js';
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
 import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
 import { appendJournal, writeIndex } from '../results/index-write.js';
-import { documentJsonName } from '../results/layout.js';
 import type { ResultsLine } from '../results/results-line.js';
-import { failedLine, okLine, skippedLine, withRequestedId } from '../results/results-line.js';
+import { okLine, skippedLine } from '../results/results-line.js';
 import type { BatchSummary } from '../results/summary.js';
 import { summarize } from '../results/summary.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { removeOrphanTemps } from '../results/temp-files.js';
-import { writeReviewCrops } from '../review/crops.js';
 import { writeReviewQueue } from '../review/queue-write.js';
 import type { LoadedSchema } from '../schema/load.js';
-import { carryReviewedFields } from './carry-review.js';
+import { readInput, sameInputs, type ReadingSetup } from './read-input.js';
 import { discoverInputs, documentIds } from './discover.js';
 import { IdClaims } from './id-claims.js';
 
@@ -69,15 +65,6 @@ async function sha256Of(file: string): Promise<string> {
   return createHash('sha256').update(await readFile(file)).digest('hex');
 }
 
-/** Same scan, an offered schema and the same model: what a record needs to be reused or to hand its answers on. */
-function sameInputs(record: DocumentResult, sha: string, options: BatchOptions): boolean {
-  return (
-    record.document.sha256 === sha &&
-    options.schemas.some((s) => s.sha256 === record.schema.sha256) &&
-    record.model.sha256 === options.detector.sha256
-  );
-}
-
 /**
  * The records a previous run wrote for this file, when the file, the schemas and the model are unchanged: a file
  * that held a stack of forms has several (id.p1, id.p2, ...), all listed in the index.
@@ -97,17 +84,6 @@ async function reusable(outDir: string, own: readonly ResultsLine[], file: strin
   } catch {
     return null;
   }
-}
-
-/** Earlier records of this file that may hand reviewed fields on to a new reading (same scan, schema and model). */
-async function earlierRecords(outDir: string, own: readonly ResultsLine[]): Promise<Map<string, DocumentResult>> {
-  const out = new Map<string, DocumentResult>();
-  for (const l of own) {
-    if (!l.ok || !l.json) continue;
-    const r = await readResultsRecord(path.join(outDir, l.json)).catch(() => null);
-    if (r) out.set(r.document.id, r);
-  }
-  return out;
 }
 
 /**
@@ -158,6 +134,16 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const stems = documentIds(files);
   const lines: ResultsLine[] = [];
   const results: DocumentResult[] = [];
+  const setup: ReadingSetup = {
+    schemas: options.schemas,
+    detector: options.detector,
+    outDir: options.outDir,
+    deskew: options.deskew,
+    orientation: options.orientation,
+    dropout: options.dropout,
+    digitReader: options.digitReader,
+    today: options.today,
+  };
 
   for (const [index, file] of files.entries()) {
     const recorded = recordedPath(file);
@@ -170,34 +156,10 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
       results.push(...reused);
       fileLines.push(...reused.map(okLine));
     } else {
-      try {
-        const forms = extractForms(file, {
-          schema: options.schemas,
-          detector: options.detector,
-          documentId: stem,
-          deskew: options.deskew,
-          orientation: options.orientation,
-          dropout: options.dropout,
-          digitReader: options.digitReader,
-          today: options.today,
-        });
-        const earlier = await earlierRecords(options.outDir, own);
-        // Each form is written as soon as it is read, and its pages let go.
-        for await (const { result: read, pages } of forms) {
-          const requested = read.document.id;
-          read.document.id = claims.claim(requested, recorded);
-          const before = earlier.get(read.document.id);
-          const result = before && sameInputs(before, read.document.sha256, options) ? carryReviewedFields(read, before) : read;
-          await writeJsonAtomic(path.join(options.outDir, documentJsonName(result.document.id)), result);
-          await writeReviewCrops(options.outDir, result, pages);
-          results.push(result);
-          fileLines.push(withRequestedId(okLine(result), requested));
-        }
-      } catch (err) {
-        if (err instanceof FormgleanError && err.exitCode === 2) throw err;
-        const message = err instanceof FormgleanError ? oneLine(err) : `${file}: ${oneLine(err)}`;
-        fileLines.push(failedLine(claims.claim(stem, recorded), recorded, message));
-      }
+      const job = { file, recorded, stem, earlierJson: own.filter((l) => l.ok && l.json).map((l) => l.json as string) };
+      const outcome = await readInput(job, setup, (requested) => claims.claim(requested, recorded));
+      results.push(...outcome.results);
+      fileLines.push(...outcome.lines);
     }
     await appendJournal(options.outDir, { path: recorded, lines: fileLines });
     lines.push(...fileLines);

@@ -7,7 +7,6 @@ import { parseSchemaText } from '../schema/load.js';
 import type { FormSchema } from '../schema/definition.js';
 import {
   proposeThresholds,
-  type CalibrationSample,
   type FieldCalibration,
   type ThresholdProposal,
 } from './calibration-thresholds.js';

@@ -1,6 +1,6 @@
 import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
 import type { Alignment } from '../page/alignment.js';
-import type { Affine, Box } from '../image/geometry.js';
+import type { Affine } from '../image/geometry.js';
 import { transformBox, unionBox } from '../image/geometry.js';
 import type { LocatedField } from '../locate/locate-fields.js';
 import type { FieldResult } from '../result/document.js';

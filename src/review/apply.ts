@@ -1,5 +1,4 @@
 import { userInfo } from 'node:os';
-import path from 'node:path';
 import { writeJsonAtomic } from '../io/atomic-write.js';
 import type { DocumentResult, FieldResult } from '../result/document.js';
 import { DocumentResult as DocumentResultSchema } from '../result/document.js';
