@@ -99,7 +99,7 @@ function show() {
   setImage($('crop'), row.crop, `Scan of field ${row.field}`);
   setImage($('context'), row.contextCrop, `Field ${row.field} among its neighbours`);
   $('value').textContent = row.value === '' ? '(nothing)' : row.value;
-  $('ocr').textContent = row.ocrText === '' ? '(nothing)' : row.ocrText;
+  $('ocr').textContent = row.raw === '' ? '(nothing)' : row.raw;
   $('type').textContent = row.type;
   $('confidence').textContent = row.confidence;
   $('now').textContent = describeNow(row);

@@ -7,7 +7,8 @@ import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
-import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
+import { checkReferenceImages } from '../schema/blank-images.js';
+import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
 
 interface ExtractCliOptions {

@@ -85,7 +85,7 @@ export function addDraftSubcommand(schemaCommand: Command): void {
     .description('Draft a schema from a blank form: detect entry areas, read their labels, guess names and types')
     .argument('<blank-form>', 'blank form image (png, jpeg or tiff; one page per tiff page)')
     .requiredOption('--out <file>', 'schema file to write (YAML)')
-    .option('--model <model>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
+    .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .option('--overlay <png>', 'overlay of the drafted fields to check by eye (default: <out>.overlay.png; page 1)')
     .option('--name <name>', 'form name written into the schema (default: the input file name)')
     .option('--min-score <s>', 'lowest detection score drafted (default: the model\'s operating threshold)')

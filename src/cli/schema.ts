@@ -3,7 +3,8 @@ import type { Command } from 'commander';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
-import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
+import { checkReferenceImages } from '../schema/blank-images.js';
+import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { formSchemaJsonSchema } from '../schema/json-schema.js';
 import { loadSchema } from '../schema/load.js';
 
@@ -15,7 +16,7 @@ export function registerSchemaCommand(program: Command): Command {
     .command('check')
     .description('Validate a schema file and its blank images, and its detector classes against a model')
     .argument('<file>', 'schema file (YAML or JSON)')
-    .option('--model <model>', 'ONNX detector whose classes the schema must use')
+    .option('--model <file>', 'ONNX detector whose classes the schema must use')
     .action(async (file: string, opts: { model?: string }) => {
       const loaded = await loadSchema(file);
       const missing = await checkReferenceImages(loaded);

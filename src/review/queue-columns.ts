@@ -8,7 +8,7 @@
  *  field, type   schema field name and field type
  *  status        field status at export (review, missing or invalid)
  *  value         the normalized value as read ('' when nothing usable was read)
- *  ocr_text      what OCR returned before normalization
+ *  raw           what was read before normalization (the record's "raw"; older queues call it ocr_text)
  *  confidence    0..1
  *  reasons       reason codes, separated by "; "
  *  crop          field image, relative to queue.csv
@@ -26,7 +26,7 @@ export const QUEUE_COLUMNS = [
   'type',
   'status',
   'value',
-  'ocr_text',
+  'raw',
   'confidence',
   'reasons',
   'crop',

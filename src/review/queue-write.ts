@@ -40,7 +40,7 @@ export function buildQueueRows(results: readonly DocumentResult[], crops: CropLo
         type: f.type,
         status: f.status,
         value: valueToCell(f.value),
-        ocr_text: f.raw ?? '',
+        raw: f.raw ?? '',
         confidence: confidenceToCell(f.confidence),
         reasons: f.reasons.join(REASON_SEPARATOR),
         crop: c.crop,

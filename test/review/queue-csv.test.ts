@@ -58,16 +58,16 @@ describe('queue CSV', () => {
     const parsed = parse(body, { columns: true }) as Record<string, string>[];
     expect(parsed).toHaveLength(3);
     expect(parsed[0].value).toBe('Quill, "Robin"');
-    expect(parsed[0].ocr_text).toBe('Quill, "Robin"\nline two');
+    expect(parsed[0].raw).toBe('Quill, "Robin"\nline two');
   });
 
   it('guards formula-like cells in the file (OWASP CSV injection) and reverses them on reading', () => {
     const parsed = parse(text.slice(1), { columns: true }) as Record<string, string>[];
     // OWASP CSV Injection: a leading apostrophe keeps =SUM(...) and -12.50 from being evaluated.
-    expect(parsed[1].ocr_text).toBe("'=SUM(A1:A9)");
+    expect(parsed[1].raw).toBe("'=SUM(A1:A9)");
     expect(parsed[1].value).toBe("'-12.50");
     const back = parseReviewQueue('queue.csv', Buffer.from(text, 'utf8'));
-    expect(back.entries[1].cells.ocr_text).toBe('=SUM(A1:A9)');
+    expect(back.entries[1].cells.raw).toBe('=SUM(A1:A9)');
     expect(back.entries[1].cells.value).toBe('-12.50');
     expect(back.entries.map((e) => e.line)).toEqual([2, 4, 5]); // the first row spans lines 2-3
   });

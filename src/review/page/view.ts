@@ -30,7 +30,7 @@ export interface PageRow {
   type: string;
   /** The value and OCR text as the queue lists them. */
   value: string;
-  ocrText: string;
+  raw: string;
   confidence: string;
   reasons: PageReason[];
   /** What the reviewer may type, naming the accepted formats; null when the field's schema cannot be loaded. */
@@ -107,7 +107,8 @@ export async function pageRows(resultsDir: string, entries: readonly QueueEntry[
       field: (cells.field ?? '').trim() || (f?.name ?? ''),
       type: (cells.type ?? '').trim() || (f?.type ?? ''),
       value: cells.value ?? '',
-      ocrText: cells.ocr_text ?? '',
+      // Queues written before the column was renamed call it ocr_text.
+      raw: cells.raw ?? (cells as Record<string, string | undefined>).ocr_text ?? '',
       confidence: cells.confidence ?? '',
       reasons: reasonList(cells.reasons),
       accepts,
