@@ -1,12 +1,16 @@
 /**
- * formglean's library surface. Everything here runs offline; nothing is sent anywhere.
+ * formglean's library surface. Everything here runs offline; nothing is sent anywhere. From the repository root
+ * (test/api/doc-example.test.ts compiles and runs these lines as written):
  *
  *   const schema = await loadSchema('schemas/clinic-intake.yaml');
  *   const detector = await loadDetector(DEFAULT_MODEL_PATH);
  *   const digitReader = await DigitReader.open(); // optional: digit combs read cell by cell beside Tesseract
- *   const { result } = await extractDocument('scan.png', { schema, detector, digitReader });
- *   await runBatch({ inputs: ['scans/'], schemas: [schema], detector, digitReader, outDir: 'out' });
+ *   const { result } = await extractDocument('samples/clinic-intake-typed.png', { schema, detector, digitReader });
+ *   console.log(result.fields.filter((f) => f.status === 'accepted').length, 'fields accepted');
+ *   await runBatch({ inputs: ['samples/clinic-intake-typed.png'], schemas: [schema], detector, digitReader, outDir: 'out' });
  *   await digitReader.close();
+ *   await detector.close();
+ *   await closeSharedOcrEngine(); // the OCR worker the reads shared
  */
 export { loadSchema, parseSchemaText, referenceImagePath } from './schema/load.js';
 export { loadSchemas } from './schema/load-many.js';
