@@ -93,7 +93,7 @@ async function locateDocument(resultFile: string, result: DocumentResult, overri
  */
 export function recordFilePage(resultFile: string, result: DocumentResult, page: number): number {
   const p = result.pages.find((x) => x.index === page);
-  if (!p) throw configError(resultFile, `--page ${page} asked, but the record has ${result.pages.length} page(s) (0-based)`);
+  if (!p) throw configError(resultFile, `--page ${page + 1} asked, but the record has ${result.pages.length} page(s)`);
   return p.filePage ?? p.index;
 }
 
@@ -104,21 +104,23 @@ export function registerOverlayCommand(program: Command): void {
     .description('Draw the located fields of a document result, coloured by status, on the page image')
     .argument('<result>', 'document result JSON written by extract')
     .requiredOption('--out <png>', 'PNG to write')
-    .option('--page <n>', "page of the record's form (0-based; a record of a form stacked in a larger file finds its own page in the file)", '0')
+    .option('--page <n>', "page of the record's form, from 1 (a record of a form stacked in a larger file finds its own page in the file)", '1')
     .option('--document <file>', 'the scanned document, when it is no longer where the result says')
     .option('--show-values', 'print field values beside the boxes (forms carry personal data: off by default)', false)
     .action(async (resultFile: string, opts: { out: string; page: string; document?: string; showValues: boolean }) => {
-      const page = Number(opts.page);
-      if (!Number.isInteger(page) || page < 0) throw configError(undefined, `--page must be a page index 0, 1, ...; got "${opts.page}"`);
+      // People count pages from 1 (as every --page does); the record's page indexes count from 0.
+      const pageNumber = Number(opts.page);
+      if (!Number.isInteger(pageNumber) || pageNumber < 1) throw configError(undefined, `--page must be a page number from 1; got "${opts.page}"`);
+      const page = pageNumber - 1;
       const result = await readResult(resultFile);
       const filePage = recordFilePage(resultFile, result, page);
       const docFile = await locateDocument(resultFile, result, opts.document);
       const doc = await decodeDocument(docFile);
-      if (filePage >= doc.pages.length) throw configError(docFile, `the record's page ${page} is page ${filePage + 1} of the file, but the file has ${doc.pages.length} page(s)`);
+      if (filePage >= doc.pages.length) throw configError(docFile, `the record's page ${pageNumber} is page ${filePage + 1} of the file, but the file has ${doc.pages.length} page(s)`);
       const items = resultOverlayItems(result, page, opts.showValues);
       const png = await renderOverlay(doc.pages[filePage], items, statusLegend(result));
       await writeFileAtomic(opts.out, png);
       const where = filePage !== page ? ` (page ${filePage + 1} of ${path.basename(docFile)})` : '';
-      process.stdout.write(`${opts.out}: ${items.length} field boxes on page ${page}${where}${opts.showValues ? ' (with values)' : ''}\n`);
+      process.stdout.write(`${opts.out}: ${items.length} field boxes on page ${pageNumber}${where}${opts.showValues ? ' (with values)' : ''}\n`);
     });
 }

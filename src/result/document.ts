@@ -6,6 +6,10 @@ export const RESULT_FORMAT = 1;
 export const FieldStatus = z.enum(['accepted', 'review', 'missing', 'invalid', 'corrected', 'confirmed']);
 export type FieldStatus = z.infer<typeof FieldStatus>;
 
+/**
+ * Page indexes in records count from 0 (page 1 of the form is 0), as in the arrays they index; everything shown to
+ * people (the review queue's page column, --page options, messages) counts from 1.
+ */
 export const ResultBox = z.object({
   page: z.number().int().min(0),
   x: z.number(),

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
@@ -79,6 +79,17 @@ describe('formglean overlay', () => {
       }
     });
     expect(hits).toBe(TRUTH.fields.length);
+  });
+
+  it('counts --page from 1, as every other --page does', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'overlay-'));
+    const resultFile = path.join(dir, 'r.json');
+    writeFileSync(resultFile, JSON.stringify(resultFor(SAMPLE)));
+    const out = path.join(dir, 'o.png');
+    await runOverlay([resultFile, '--out', out, '--page', '1']);
+    expect(existsSync(out)).toBe(true);
+    await expect(runOverlay([resultFile, '--out', out, '--page', '0'])).rejects.toThrow(/--page must be a page number from 1; got "0"/);
+    await expect(runOverlay([resultFile, '--out', out, '--page', '2'])).rejects.toThrow(/--page 2 asked, but the record has 1 page\(s\)/);
   });
 
   it('keeps values off the page unless --show-values', () => {
