@@ -8,33 +8,8 @@ import { isFailed } from '../results/results-line.js';
 import { configError } from '../errors.js';
 import { formatJsonPath } from '../schema/load.js';
 import { DocumentResult } from '../result/document.js';
+import { TruthDocument } from '../result/truth.js';
 
-/** One field of a truth file written by `formglean samples generate` (DIR/truth/<stem>.json). */
-export const TruthField = z.object({
-  name: z.string(),
-  type: z.string(),
-  class: z.string(),
-  page: z.number().int().min(0),
-  value: z.union([z.string(), z.number(), z.boolean(), z.array(z.string()), z.null()]),
-  text: z.string().nullable(),
-  box: z.tuple([z.number(), z.number(), z.number(), z.number()]).nullable(),
-  /** A choice group's printed boxes, each with whether it was ticked. */
-  parts: z.array(z.object({ key: z.string(), checked: z.boolean() })).optional(),
-});
-export type TruthField = z.infer<typeof TruthField>;
-
-export const TruthDocument = z.object({
-  layout: z.string(),
-  seed: z.number(),
-  index: z.number().int(),
-  width: z.number(),
-  height: z.number(),
-  rotation: z.number(),
-  skew: z.number(),
-  fill: z.enum(['typed', 'handwriting', 'blank']),
-  fields: z.array(TruthField),
-});
-export type TruthDocument = z.infer<typeof TruthDocument>;
 
 /** A truth file with the stem of the page image it describes. */
 export interface TruthEntry {

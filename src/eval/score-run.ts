@@ -5,7 +5,8 @@ import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
 import type { DocumentResult } from '../result/document.js';
 import { reliabilityPng } from './reliability-diagram.js';
 import { DEFAULT_BINS } from './reliability.js';
-import { loadFailedStems, loadResults, loadTruth, type TruthDocument } from './score-input.js';
+import type { TruthDocument } from '../result/truth.js';
+import { loadFailedStems, loadResults, loadTruth } from './score-input.js';
 import { scoreAll, type ScoreReport, type ScoredField } from './score.js';
 
 export interface ScoreOptions {

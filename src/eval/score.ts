@@ -2,7 +2,7 @@ import { iou } from '../image/geometry.js';
 import type { DocumentResult, FieldResult, FieldStatus } from '../result/document.js';
 import { reliability, type Reliability } from './reliability.js';
 import { groupBy } from './score-groups.js';
-import type { TruthDocument, TruthField } from './score-input.js';
+import type { TruthDocument, TruthField } from '../result/truth.js';
 import { editCount, pooledErrorRate, valuesEqual, valueText, type EditCount } from './text-metrics.js';
 
 /** A result box counts as found when its IoU with the truth box reaches this (PASCAL VOC's 0.5, Everingham et al. 2010). */

@@ -1,6 +1,7 @@
 import { applyConfidenceMap, type ConfidenceMapPoints } from './confidence-map.js';
 import type { Interpretation, Reading } from './types.js';
 import type { ReasonCode } from './reasons.js';
+import type { FieldSource, ReadStatus } from '../result/document.js';
 
 /**
  * Confidence and status of one field, from everything known about it (pure).
@@ -29,7 +30,7 @@ import type { ReasonCode } from './reasons.js';
  */
 export interface ScoreInput {
   detectionScore: number | null;
-  source: 'detection' | 'region' | 'none';
+  source: FieldSource;
   reading: Reading | null;
   interpretation: Interpretation | null;
   reviewThreshold: number;
@@ -54,7 +55,7 @@ export interface AlignmentEvidence {
 }
 
 export interface FieldScore {
-  status: 'accepted' | 'review' | 'missing' | 'invalid';
+  status: ReadStatus;
   confidence: number;
   reasons: ReasonCode[];
   scores: Record<string, number>;

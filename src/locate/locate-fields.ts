@@ -6,12 +6,13 @@ import type { ReasonCode } from '../fields/reasons.js';
 import type { ExpectedPart } from './expected-boxes.js';
 import { expectedParts } from './expected-boxes.js';
 import { greedyMatch } from './greedy-match.js';
+import type { FieldSource } from '../result/document.js';
 
 export interface LocatedPart {
   key: string;
   /** Box on the page (page pixels) to read, or null when the part was not found. */
   box: Box | null;
-  source: 'detection' | 'region' | 'none';
+  source: FieldSource;
   detectionScore: number | null;
   /** The schema region carried onto the page, when there is one. */
   expected: Box | null;

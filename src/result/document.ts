@@ -6,6 +6,14 @@ export const RESULT_FORMAT = 1;
 export const FieldStatus = z.enum(['accepted', 'review', 'missing', 'invalid', 'corrected', 'confirmed']);
 export type FieldStatus = z.infer<typeof FieldStatus>;
 
+/** The statuses reading gives a field; corrected and confirmed come only from a person's review. */
+export const ReadStatus = FieldStatus.exclude(['corrected', 'confirmed']);
+export type ReadStatus = z.infer<typeof ReadStatus>;
+
+/** Where a field's box came from: a detection, or the schema region after alignment; none when neither. */
+export const FieldSource = z.enum(['detection', 'region', 'none']);
+export type FieldSource = z.infer<typeof FieldSource>;
+
 /**
  * Page indexes in records count from 0 (page 1 of the form is 0), as in the arrays they index; everything shown to
  * people (the review queue's page column, --page options, messages) counts from 1.
@@ -35,8 +43,7 @@ export const FieldResult = z.object({
   reasons: z.array(z.string()),
   /** Where the field was read, in source pixels of the (un-rotated) input page. */
   box: ResultBox.nullable(),
-  /** Where the box came from: a detection, or the schema region after alignment. */
-  source: z.enum(['detection', 'region', 'none']),
+  source: FieldSource,
   /** Component scores that make up the confidence, each 0..1. */
   scores: z.record(z.string(), z.number()),
   /** Per-part details: fill ratios of a choice group's boxes, cleanup variants tried, ... */

@@ -3,8 +3,10 @@ import type { FieldTypeName, Layout, LayoutField } from './layout-model.js';
 import { isChecked, type MarkKind } from './checkbox-mark.js';
 import type { Rng } from './prng.js';
 import { drawPersona, drawValue } from './values/draw-value.js';
+import type { TruthFill } from '../result/truth.js';
 
-export type FillMode = 'typed' | 'handwriting' | 'blank';
+/** How a page is filled: the truth file's fill (result/truth.ts). */
+export type FillMode = TruthFill;
 
 /** How the page's writer writes: one pen per page, as one person fills one form. */
 export interface Pen {

@@ -3,47 +3,30 @@ import { boxTuple } from './box-tuple.js';
 import type { MarkKind } from './checkbox-mark.js';
 import type { FieldFill, FieldValue, FillMode, Pen } from './fill.js';
 import { scanBox } from './homography.js';
+import type { TruthDocument, TruthField as TruthFieldContract } from '../result/truth.js';
 import type { DetectorClass, FieldTypeName, Layout } from './layout-model.js';
 import { writtenLines } from './page-svg.js';
 import type { ScanParams } from './scan-params.js';
 
-/** One field's truth: what was drawn for it and where it lies on the final pixels. */
-export interface TruthField {
-  name: string;
+/** One field's truth: what was drawn for it and where it lies on the final pixels (the contract: result/truth.ts). */
+export type TruthField = Omit<TruthFieldContract, 'parts'> & {
   type: FieldTypeName;
   class: DetectorClass;
-  page: number;
-  /** Normalized as results give it (ISO date, E.164 phone, number, boolean, choice value(s)); null when blank. */
-  value: FieldValue;
-  /** As written on the page; lines of a multi-line area joined by "\n"; null for marks, signatures, blanks. */
-  text: string | null;
-  /** [x, y, w, h] in page pixels; for a choice group, the bounds of all its boxes. */
-  box: [number, number, number, number];
-  /** Checkbox: the mark drawn in the box. */
   mark?: MarkKind;
-  /** Choice: each printed box with its own mark. */
   parts?: { key: string; box: [number, number, number, number]; mark: MarkKind; checked: boolean }[];
-}
+};
 
-export interface PageTruth {
-  layout: string;
-  /** Style family of the layout. */
+/** A generated page's truth: the writer fills in every optional member of the contract. */
+export type PageTruth = Omit<TruthDocument, 'fields' | 'fill' | 'family' | 'file' | 'dpi' | 'pen' | 'rotation'> & {
   family: string;
-  seed: number;
-  index: number;
   file: string;
-  width: number;
-  height: number;
   dpi: number;
   /** 0 or 180 (upside-down feed). */
   rotation: 0 | 180;
-  /** Small rotation in degrees, positive = clockwise on screen. */
-  skew: number;
   fill: FillMode;
-  /** Typed font or handwriting-style font family key used by the writer; null on blank pages. */
   pen: string | null;
   fields: TruthField[];
-}
+};
 
 
 function truthField(f: FieldFill, pen: Pen | null, scan: ScanParams): TruthField {

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type { DocumentResult, FieldResult } from '../../src/result/document.js';
 import { countStatuses } from '../../src/result/document.js';
-import type { TruthDocument, TruthField } from '../../src/eval/score-input.js';
+import type { TruthDocument, TruthField } from '../../src/result/truth.js';
 
 const made: string[] = [];
 

@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
-import { TruthDocument } from '../../src/eval/score-input.js';
+import { TruthDocument } from '../../src/result/truth.js';
 import { scoreDocument, type ScoredField } from '../../src/eval/score.js';
 import { iou } from '../../src/image/geometry.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';

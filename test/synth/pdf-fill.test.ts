@@ -2,7 +2,7 @@ import { mkdtemp, readdir, readFile, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { TruthDocument } from '../../src/eval/score-input.js';
+import { TruthDocument } from '../../src/result/truth.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { checkSchemaAgainstClasses } from '../../src/schema/consistency.js';
