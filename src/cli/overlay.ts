@@ -9,6 +9,7 @@ import type { LegendEntry, OverlayItem } from '../page/overlay.js';
 import { renderOverlay } from '../page/overlay.js';
 import { DocumentResult, FieldStatus } from '../result/document.js';
 import type { FieldResult } from '../result/document.js';
+import { asConfigError, readResultsRecord } from '../results/document-record.js';
 
 /** Frame colours per status: a colour-blind-safe set (Okabe & Ito, "Color Universal Design", 2008) plus gray. */
 export const STATUS_COLOURS: Record<FieldStatus, string> = {
@@ -45,26 +46,11 @@ export function statusLegend(result: DocumentResult): LegendEntry[] {
     .concat([{ colour: '#404040', text: 'dashed: schema region' }]);
 }
 
+/** The record named on the command line: a bad one is a usage error (exit code 2). */
 async function readResult(file: string): Promise<DocumentResult> {
-  let text: string;
-  try {
-    text = await readFile(file, 'utf8');
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    throw configError(file, code === 'ENOENT' ? 'file not found' : `cannot read file (${code ?? 'error'})`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (err) {
-    throw configError(file, `not JSON (${err instanceof Error ? err.message.split('\n')[0] : String(err)})`);
-  }
-  const parsed = DocumentResult.safeParse(json);
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    throw configError(file, `not a formglean document result: ${issue.path.join('.') || '(top)'}: ${issue.message}`);
-  }
-  return parsed.data;
+  return readResultsRecord(file).catch((err: unknown) => {
+    throw asConfigError(err);
+  });
 }
 
 /** Where the scanned document is: an explicit --document, else the result's path as written or beside the result. */

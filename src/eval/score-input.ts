@@ -7,7 +7,8 @@ import { RESULTS_FILE } from '../results/layout.js';
 import { isFailed } from '../results/results-line.js';
 import { configError } from '../errors.js';
 import { formatJsonPath } from '../schema/load.js';
-import { DocumentResult } from '../result/document.js';
+import type { DocumentResult } from '../result/document.js';
+import { asConfigError, recordFromJson } from '../results/document-record.js';
 import { TruthDocument } from '../result/truth.js';
 
 
@@ -76,6 +77,15 @@ export async function loadTruth(dir: string): Promise<Map<string, TruthEntry>> {
   return out;
 }
 
+/** A record among score's inputs: a bad one is a usage error (exit code 2), reported as every command reports it. */
+function recordOrUsageError(raw: unknown, file: string): DocumentResult {
+  try {
+    return recordFromJson(raw, file).result;
+  } catch (err) {
+    throw asConfigError(err);
+  }
+}
+
 /**
  * Document results of a results folder (DIR/<document>.json as extract writes them, or DIR/<batch>/<document>.json
  * for several batches, e.g. one per schema), keyed by the stem of the source image the result names. Other JSON
@@ -87,15 +97,14 @@ export async function loadResults(dir: string): Promise<Map<string, ResultEntry>
   for (const file of files) {
     const raw = await readJson(file);
     if (!raw || typeof raw !== 'object' || !('document' in raw) || !('fields' in raw)) continue;
-    const parsed = DocumentResult.safeParse(raw);
-    if (!parsed.success) invalid(file, 'document result', parsed.error);
+    const result = recordOrUsageError(raw, file);
     // A file holding a stack of forms gives one record per form, named <file>.pN by extract (and by its truth).
-    const form = /\.p\d+$/.exec(parsed.data.document.id)?.[0] ?? '';
-    const stem = fileStem(parsed.data.document.path) + form;
+    const form = /\.p\d+$/.exec(result.document.id)?.[0] ?? '';
+    const stem = fileStem(result.document.path) + form;
     if (out.has(stem)) {
       throw configError(file, `second result for an image named "${stem}" (also ${path.basename(out.get(stem)!.file)})`);
     }
-    out.set(stem, { stem, file, result: parsed.data });
+    out.set(stem, { stem, file, result });
   }
   return out;
 }

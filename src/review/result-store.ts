@@ -1,7 +1,7 @@
-import { readFile } from 'node:fs/promises';
 import path from 'node:path';
-import { configError, documentError } from '../errors.js';
-import { DocumentResult } from '../result/document.js';
+import { configError } from '../errors.js';
+import type { DocumentResult } from '../result/document.js';
+import { readRecord } from '../results/document-record.js';
 import { readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
 import { RESULTS_FILE } from '../results/layout.js';
 import type { ResultsLine } from '../results/results-line.js';
@@ -24,24 +24,7 @@ export interface ResultsFolder {
 }
 
 export async function readStoredResult(file: string): Promise<StoredResult> {
-  let text: string;
-  try {
-    text = await readFile(file, 'utf8');
-  } catch (err) {
-    throw documentError(file, `cannot read result JSON (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (err) {
-    throw documentError(file, `not valid JSON (${(err as Error).message.split('\n')[0]})`);
-  }
-  const parsed = DocumentResult.safeParse(raw);
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    throw documentError(file, `not a formglean result: ${issue.path.join('.') || '(top level)'}: ${issue.message}`);
-  }
-  return { file, result: parsed.data, raw: raw as Record<string, unknown> };
+  return { file, ...(await readRecord(file)) };
 }
 
 /** The processed documents of an extract output folder, found through its index (src/results/index-read.ts). */

@@ -1,7 +1,7 @@
 import { unionBox } from '../image/geometry.js';
 import { boxTuple } from './box-tuple.js';
 import type { MarkKind } from './checkbox-mark.js';
-import type { FieldFill, FieldValue, FillMode, Pen } from './fill.js';
+import type { FieldFill, FillMode, Pen } from './fill.js';
 import { scanBox } from './homography.js';
 import type { TruthDocument, TruthField as TruthFieldContract } from '../result/truth.js';
 import type { DetectorClass, FieldTypeName, Layout } from './layout-model.js';
