@@ -39,7 +39,7 @@ import type { DegradeLevel } from '../src/synth/scan-params.js';
 import { calibrateItems, calibrationSamples, DEFAULT_MIN_SAMPLES, schemaCalibration } from '../src/eval/calibration-run.js';
 import { DEMO_CALIBRATION_FILE, type DemoCalibration } from '../src/synth/demo-calibration.js';
 import { evaluateOnHoldout, type HoldoutEvaluation } from '../src/eval/calibration-holdout.js';
-import { withCalibration } from '../src/eval/calibration-schema.js';
+import { withCalibration } from '../src/schema/calibration-yaml.js';
 import { DEFAULT_BINS } from '../src/eval/reliability.js';
 import { runScore } from '../src/eval/score-run.js';
 import { formatScore } from '../src/eval/score-table.js';

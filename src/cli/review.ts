@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { configError, printable } from '../errors.js';
 import { applyReviewQueue, type ApplyReport } from '../review/apply.js';
-import { queuePath } from '../review/layout.js';
+import { queuePath } from '../results/review-layout.js';
 import { startReviewPage } from '../review/page/server.js';
 import { writeReviewQueue } from '../review/queue-write.js';
 import { reasonsMarkdown, reasonsText } from '../review/reasons-text.js';

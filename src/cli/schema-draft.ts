@@ -14,8 +14,8 @@ import { grayToPng } from '../image/raster.js';
 import { sharedOcrEngine, closeSharedOcrEngine } from '../read/ocr-engine.js';
 import type { DraftedField, SchemaDraft } from '../draft/from-image.js';
 import { draftSchema } from '../draft/from-image.js';
-import type { SchemaValue } from '../synth/schema-from-layout.js';
-import { schemaYaml } from '../synth/schema-yaml.js';
+import type { SchemaValue } from '../schema/schema-value.js';
+import { schemaYaml } from '../schema/yaml-write.js';
 
 /** Frame colours of drafted fields by detector class (Okabe & Ito colour-blind-safe set). */
 const CLASS_COLOURS: Record<string, string> = {

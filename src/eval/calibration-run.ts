@@ -10,7 +10,7 @@ import {
   type FieldCalibration,
   type ThresholdProposal,
 } from './calibration-thresholds.js';
-import { roundLevel, withCalibration, type SchemaFieldCalibration } from './calibration-schema.js';
+import { roundLevel, withCalibration, type SchemaFieldCalibration } from '../schema/calibration-yaml.js';
 import { applyIsotonic } from './calibration.js';
 import { DEFAULT_BINS } from './reliability.js';
 import { reviewedSamples, type ReviewedSample } from './reviewed-labels.js';

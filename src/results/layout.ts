@@ -1,4 +1,4 @@
-/** Names of the files a results folder holds at its top level (the review folder has its own: src/review/layout.ts). */
+/** Names of the files a results folder holds at its top level (the review folder has its own: review-layout.ts). */
 export const RESULTS_FILE = 'results.jsonl';
 export const SUMMARY_FILE = 'summary.json';
 /**

@@ -1,6 +1,6 @@
 import { readdir, rm } from 'node:fs/promises';
 import path from 'node:path';
-import { CROPS_DIR, REVIEW_DIR } from '../review/layout.js';
+import { CROPS_DIR, REVIEW_DIR } from './review-layout.js';
 import { processAlive } from '../io/process-alive.js';
 
 /** Temp names src/io/atomic-write.ts gives: .<name>.<pid>.<8 hex>.tmp */

@@ -9,7 +9,7 @@ import type { AuditEntry } from './audit.js';
 import { appendAudit, readAudit } from './audit.js';
 import type { FieldTyping } from './field-options.js';
 import { FieldOptionsSource } from './field-options.js';
-import { auditPath, reviewDir } from './layout.js';
+import { auditPath, reviewDir } from '../results/review-layout.js';
 import { readReviewQueue } from './queue-read.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { removeOrphanTemps } from '../results/temp-files.js';

@@ -6,7 +6,7 @@ import { clampBox, roundBox } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 import { cropGray, grayToPng, sharpFromGray } from '../image/raster.js';
 import type { DocumentResult, ResultBox } from '../result/document.js';
-import { contextCropName, CROPS_DIR, cropName, reviewDir } from './layout.js';
+import { contextCropName, CROPS_DIR, cropName, reviewDir } from '../results/review-layout.js';
 import { isPending } from './pending.js';
 import { reviewRowId } from './row-id.js';
 

@@ -6,7 +6,7 @@ import type { DocumentResult } from '../result/document.js';
 import { confidenceToCell, valueToCell } from './cell-value.js';
 import { listCrops } from './crops.js';
 import { guardCell } from './formula-guard.js';
-import { contextCropName, cropName, queuePath, reviewDir } from './layout.js';
+import { contextCropName, cropName, queuePath, reviewDir } from '../results/review-layout.js';
 import { isPending } from './pending.js';
 import type { QueueRow } from './queue-columns.js';
 import { QUEUE_COLUMNS, REASON_SEPARATOR, REVIEWER_COLUMNS } from './queue-columns.js';

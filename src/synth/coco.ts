@@ -1,7 +1,7 @@
 import type { Box } from '../image/geometry.js';
 import { DETECTOR_CLASSES, type DetectorClass, type Layout } from './layout-model.js';
 import type { ScanParams } from './scan-params.js';
-import { boxTuple } from './box-tuple.js';
+import { boxTuple } from '../image/box-tuple.js';
 import { scanBox } from './homography.js';
 
 /** COCO object-detection format (cocodataset.org, "Data format": images, annotations with bbox [x,y,width,height]

@@ -6,7 +6,7 @@ import { REFERENCE_DPI } from './layout-model.js';
 import { renderBlank } from './render-page.js';
 import { demoCalibration } from './demo-calibration.js';
 import { schemaFromLayout } from './schema-from-layout.js';
-import { schemaYaml } from './schema-yaml.js';
+import { schemaYaml } from '../schema/yaml-write.js';
 
 /** The text of schemas/<layout>.yaml: the layout's fields with the demo calibration (demo-calibration.ts). */
 export function demoSchemaText(name: DemoLayoutName): string {

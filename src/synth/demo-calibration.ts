@@ -1,4 +1,4 @@
-import type { SchemaFieldCalibration } from '../eval/calibration-schema.js';
+import type { SchemaFieldCalibration } from '../schema/calibration-yaml.js';
 import type { DemoLayoutName } from './layouts.js';
 import calibration from './demo/calibration.json' with { type: 'json' };
 

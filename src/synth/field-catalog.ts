@@ -1,6 +1,6 @@
 import type { CheckSpec, ChoiceSpec, ItemSpec, TableColumn } from './layout-builder.js';
 import type { Rng } from './prng.js';
-import { US_STATES } from './values/word-lists.js';
+import { US_STATES } from '../fields/us-states.js';
 
 /** Printed date formats and, for each, how a form with printed separators splits it. */
 export const DATE_FORMATS: readonly { format: string; parts?: number[]; separator?: string }[] = [

@@ -1,30 +1,8 @@
 import { unionBox } from '../image/geometry.js';
-import { boxTuple } from './box-tuple.js';
+import { boxTuple } from '../image/box-tuple.js';
 import type { DemoCalibration } from './demo-calibration.js';
 import type { Layout, LayoutField } from './layout-model.js';
-
-/** A field entry of the form-schema file, as plain data (validated by FormSchema where it is used). */
-export interface SchemaFieldValue {
-  name: string;
-  label: string;
-  type: string;
-  class: string;
-  page: number;
-  region: [number, number, number, number];
-  required?: boolean;
-  options?: Record<string, unknown>;
-  ocr?: { mode: 'block' };
-  reviewThreshold?: number;
-  confidenceMap?: [number, number][];
-}
-
-export interface SchemaValue {
-  $schema: string;
-  form: { name: string; version: string; description: string };
-  pages: { width: number; height: number; image: string }[];
-  fields: SchemaFieldValue[];
-}
-
+import type { SchemaFieldValue, SchemaValue } from '../schema/schema-value.js';
 
 function fieldValue(f: LayoutField): SchemaFieldValue {
   const region = boxTuple(unionBox(f.slots.map((s) => s.box)));

@@ -1,5 +1,5 @@
 import { unionBox } from '../image/geometry.js';
-import { boxTuple } from './box-tuple.js';
+import { boxTuple } from '../image/box-tuple.js';
 import type { MarkKind } from './checkbox-mark.js';
 import type { FieldFill, FillMode, Pen } from './fill.js';
 import { scanBox } from './homography.js';

@@ -6,7 +6,8 @@ import type { Layout, LayoutField } from '../../src/synth/layout-model.js';
 import type { Rng } from '../../src/synth/prng.js';
 import { drawDate } from '../../src/synth/values/dates.js';
 import { drawUsZip } from '../../src/synth/values/postal-codes.js';
-import { CITIES, FAMILY_NAMES, GIVEN_NAMES, STREETS, US_STATES } from '../../src/synth/values/word-lists.js';
+import { US_STATES } from '../../src/fields/us-states.js';
+import { CITIES, FAMILY_NAMES, GIVEN_NAMES, STREETS } from '../../src/synth/values/word-lists.js';
 
 /**
  * Invented entries for the real withholding-certificate layout: a made-up employee from the project's invented word

@@ -1,7 +1,7 @@
 import type { Box } from '../../image/geometry.js';
 import { unionBox } from '../../image/geometry.js';
-import { boxTuple } from '../../synth/box-tuple.js';
-import type { SchemaFieldValue, SchemaValue } from '../../synth/schema-from-layout.js';
+import { boxTuple } from '../../image/box-tuple.js';
+import type { SchemaFieldValue, SchemaValue } from '../../schema/schema-value.js';
 import { guessTextType } from './guess-type.js';
 import { fieldKey, fieldLabel, UniqueKeys } from './naming.js';
 import type { PageWidgets, PdfRect, PdfWidget } from './widgets.js';

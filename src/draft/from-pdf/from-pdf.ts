@@ -6,8 +6,8 @@ import { writeFileAtomic } from '../../io/atomic-write.js';
 import { grayToPng, type GrayImage } from '../../image/raster.js';
 import { FormSchema } from '../../schema/definition.js';
 import { formatJsonPath } from '../../schema/load.js';
-import type { SchemaValue } from '../../synth/schema-from-layout.js';
-import { schemaYaml } from '../../synth/schema-yaml.js';
+import type { SchemaValue } from '../../schema/schema-value.js';
+import { schemaYaml } from '../../schema/yaml-write.js';
 import { assembleFields, assembleSchema, type FieldSource } from './assemble.js';
 import { loadPdf, readPageWidgets, type SkippedWidgets } from './widgets.js';
 

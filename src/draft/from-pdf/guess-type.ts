@@ -1,4 +1,4 @@
-import { US_STATES } from '../../synth/values/word-lists.js';
+import { US_STATES } from '../../fields/us-states.js';
 import { lastNameWord, partialName, tooltipCore, words } from './naming.js';
 import type { PdfWidget } from './widgets.js';
 

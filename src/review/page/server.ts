@@ -7,7 +7,7 @@ import { oneLine } from '../../errors.js';
 import { recordedPath } from '../../results/recorded-path.js';
 import { EMPTY_CORRECTION } from '../answers.js';
 import { applyAnswers, defaultReviewer } from '../apply.js';
-import { CROPS_DIR, queuePath, reviewDir } from '../layout.js';
+import { CROPS_DIR, queuePath, reviewDir } from '../../results/review-layout.js';
 import { newPageToken, tokenMatches } from './token.js';
 import { answerFromPage, buildPageView, pageRows, readPageQueue } from './view.js';
 

@@ -4,7 +4,7 @@ import type { Answer } from '../apply-plan.js';
 import { newQueueCommand } from '../apply-plan.js';
 import { valueToCell } from '../cell-value.js';
 import { FieldOptionsSource } from '../field-options.js';
-import { queuePath } from '../layout.js';
+import { queuePath } from '../../results/review-layout.js';
 import type { QueueEntry } from '../queue-read.js';
 import { readReviewQueue } from '../queue-read.js';
 import { resultFingerprint } from '../result-fingerprint.js';

@@ -1,5 +1,5 @@
 import type { Layout } from '../layout-model.js';
-import { US_STATES } from '../values/word-lists.js';
+import { US_STATES } from '../../fields/us-states.js';
 import { demoBuilder, must } from './demo-builder.js';
 
 const NAME = 'garden-plot';

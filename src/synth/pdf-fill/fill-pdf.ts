@@ -7,7 +7,7 @@ import { renderPdfPage } from '../../input/pdf.js';
 import { writeFileAtomic, writeJsonAtomic } from '../../io/atomic-write.js';
 import type { GrayImage } from '../../image/raster.js';
 import { unionBox } from '../../image/geometry.js';
-import { boxTuple } from '../box-tuple.js';
+import { boxTuple } from '../../image/box-tuple.js';
 import { CocoBuilder } from '../coco.js';
 import { encodePage } from '../encode-page.js';
 import { drawPen, type FillMode } from '../fill.js';

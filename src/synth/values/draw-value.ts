@@ -5,8 +5,9 @@ import { drawDate, isDateWindow } from './dates.js';
 import { drawNumber } from './numbers.js';
 import { drawPostalCode } from './postal-codes.js';
 import {
-  BOAT_MAKES, BOAT_NAMES, BREEDS, CITIES, CROPS, FAMILY_NAMES, GIVEN_NAMES, NOTE_SENTENCES, OCCUPATIONS, PET_NAMES, STREETS, US_STATES,
+  BOAT_MAKES, BOAT_NAMES, BREEDS, CITIES, CROPS, FAMILY_NAMES, GIVEN_NAMES, NOTE_SENTENCES, OCCUPATIONS, PET_NAMES, STREETS,
 } from './word-lists.js';
+import { US_STATES } from '../../fields/us-states.js';
 
 /** The invented person filling one page, so that name and e-mail agree. */
 export interface Persona {

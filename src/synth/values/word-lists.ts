@@ -62,13 +62,6 @@ export const NOTE_SENTENCES = [
   'Happy to help with the compost rota.',
 ];
 
-/** USPS two-letter codes for the 50 states and the District of Columbia (USPS Publication 28, Appendix B). */
-export const US_STATES = [
-  'AL', 'AK', 'AZ', 'AR', 'CA', 'CO', 'CT', 'DE', 'DC', 'FL', 'GA', 'HI', 'ID', 'IL', 'IN', 'IA', 'KS', 'KY', 'LA',
-  'ME', 'MD', 'MA', 'MI', 'MN', 'MS', 'MO', 'MT', 'NE', 'NV', 'NH', 'NJ', 'NM', 'NY', 'NC', 'ND', 'OH', 'OK', 'OR',
-  'PA', 'RI', 'SC', 'SD', 'TN', 'TX', 'UT', 'VT', 'VA', 'WA', 'WV', 'WI', 'WY',
-];
-
 /**
  * Geographic area codes (NANP) used with the fictional 555-0100..0199 line range, which the North American
  * Numbering Plan Administrator reserves for fictional use; the area codes are real so that the numbers parse as valid.

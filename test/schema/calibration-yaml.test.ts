@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCalibrate } from '../../src/eval/calibration-run.js';
 import { parseSchemaText } from '../../src/schema/load.js';
-import { documentResult, removeTempDirs, resultField, tempDir, truthDoc, truthField, writeSet } from './score-fixtures.js';
+import { documentResult, removeTempDirs, resultField, tempDir, truthDoc, truthField, writeSet } from '../eval/score-fixtures.js';
 
 afterAll(removeTempDirs);
 

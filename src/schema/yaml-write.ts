@@ -1,5 +1,5 @@
 import { Document, isScalar, isSeq, visit } from 'yaml';
-import type { SchemaValue } from './schema-from-layout.js';
+import type { SchemaValue } from './schema-value.js';
 
 const numbers = (node: unknown): boolean => isSeq(node) && node.items.every((i) => isScalar(i) && typeof i.value === 'number');
 
