@@ -26,14 +26,17 @@ function workerEntry(): string {
  * its life (opened on its first input). Id claims stay in this thread: a worker asks for each one by message.
  */
 export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
-  const pool = new Tinypool({
-    filename: workerEntry(),
-    minThreads: workers,
-    maxThreads: workers,
-    workerData: spec,
-    // Let each thread close its sessions and its tesseract worker before it ends.
-    teardown: 'closeWorker',
-  });
+  // Started on the first input read, so a run that keeps every input (--resume) starts no thread.
+  let pool: Tinypool | null = null;
+  const started = () =>
+    (pool ??= new Tinypool({
+      filename: workerEntry(),
+      minThreads: workers,
+      maxThreads: workers,
+      workerData: spec,
+      // Let each thread close its sessions and its tesseract worker before it ends.
+      teardown: 'closeWorker',
+    }));
   return {
     concurrency: workers,
     async read(job, claim) {
@@ -42,7 +45,7 @@ export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
         void Promise.resolve(claim(request.requested)).then((granted) => port1.postMessage({ id: request.id, granted } satisfies ClaimAnswer));
       });
       try {
-        const outcome = (await pool.run({ job, port: port2 }, { transferList: [port2] })) as WorkerOutcome;
+        const outcome = (await started().run({ job, port: port2 }, { transferList: [port2] })) as WorkerOutcome;
         if (outcome.failure?.exitCode === 2) throw new FormgleanError(outcome.failure.message, { exitCode: 2 });
         const lines = outcome.failure ? [failedLine(await claim(job.stem), job.recorded, outcome.failure.message)] : outcome.lines;
         return { lines, results: [], stages: outcome.stages };
@@ -50,6 +53,6 @@ export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
         port1.close();
       }
     },
-    close: () => pool.destroy(),
+    close: async () => pool?.destroy(),
   };
 }
