@@ -141,11 +141,13 @@ export function registerExtractCommand(program: Command): void {
         const r = report.run;
         progress?.finish({ interrupted: r.interrupted, wallSeconds: r.wallSeconds, documents: s.documents });
         const signal = stop.received();
-        if (r.interrupted && signal) {
+        if (signal && r.interrupted) {
           process.stderr.write(
             `interrupted by ${signal}: ${r.inputs.notReached} of ${r.inputs.total} input(s) not started; the index and the review queue ` +
               `list what was read; run the same command with --resume to go on\n`,
           );
+        } else if (signal) {
+          process.stderr.write(`${signal} came when every input had already started: the run is complete\n`);
         }
         process.stdout.write(
           `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
@@ -161,7 +163,7 @@ export function registerExtractCommand(program: Command): void {
           for (const l of skipped) process.stderr.write(`  ${printable(path.relative(process.cwd(), l.path) || l.path)}: ${printable(l.skipped ?? '')}\n`);
         }
         if (s.documents.failed > 0) process.exitCode = 1;
-        if (signal) process.exitCode = SIGNAL_EXIT[signal];
+        if (signal && r.interrupted) process.exitCode = SIGNAL_EXIT[signal];
       } finally {
         stop.release();
         progress?.finish({});
