@@ -271,6 +271,9 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
       inputs: { total: files.length, read: count.read, kept: count.kept, notReached: files.length - reached },
       pages: count.pages,
       interrupted: reached < files.length,
+      // maxRSS is in kilobytes (Node's process.resourceUsage, getrusage(2)).
+      peakRssMb: Math.round(process.resourceUsage().maxRSS / 1024),
+      cpuSeconds: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000) / 1000,
     },
     stages,
   );

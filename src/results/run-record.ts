@@ -20,6 +20,13 @@ export interface RunRecord {
   pages: number;
   pagesPerSecond: number | null;
   interrupted: boolean;
+  /** The process's peak resident memory in MB (worker threads included), when the index was written. */
+  peakRssMb: number;
+  /**
+   * CPU seconds the process used (every thread, startup included): on a shared machine wall time depends on the
+   * neighbours, CPU time much less.
+   */
+  cpuSeconds: number;
   /** Milliseconds per stage summed over every document read, and per page read; `ocr` is tesseract's part of `read`. */
   stages: Record<keyof StageTimes, { ms: number; msPerPage: number | null }>;
 }
