@@ -1,6 +1,6 @@
 import { MessageChannel } from 'node:worker_threads';
 import Tinypool from 'tinypool';
-import { FormgleanError } from '../errors.js';
+import { FormgleanError, oneLine } from '../errors.js';
 import { failedLine } from '../results/results-line.js';
 import type { InputReader } from './input-reader.js';
 import type { ClaimAnswer, ClaimRequest, WorkerOutcome, WorkerSpec } from './worker-messages.js';
@@ -45,7 +45,9 @@ export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
         void Promise.resolve(claim(request.requested)).then((granted) => port1.postMessage({ id: request.id, granted } satisfies ClaimAnswer));
       });
       try {
-        const outcome = (await started().run({ job, port: port2 }, { transferList: [port2] })) as WorkerOutcome;
+        // A thread that dies (out of memory, a crash in a native library) fails its input; the pool starts another.
+        const crashed = (err: unknown): WorkerOutcome => ({ lines: [], failure: { message: `${job.file}: worker thread failed (${oneLine(err)})`, exitCode: 1 } });
+        const outcome = await (started().run({ job, port: port2 }, { transferList: [port2] }) as Promise<WorkerOutcome>).catch(crashed);
         if (outcome.failure?.exitCode === 2) throw new FormgleanError(outcome.failure.message, { exitCode: 2 });
         const lines = outcome.failure ? [failedLine(await claim(job.stem), job.recorded, outcome.failure.message)] : outcome.lines;
         return { lines, results: [], stages: outcome.stages };
