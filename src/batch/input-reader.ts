@@ -5,6 +5,7 @@ import { readInput } from './read-input.js';
 export interface InputReader {
   /** How many inputs it reads at once: the batch keeps no more than this in flight, so memory stays flat. */
   readonly concurrency: number;
+  /** Lines and stage times; `results` may be empty (a pool keeps the records on disk, where the batch reads them). */
   read(job: InputJob, claim: ClaimId): Promise<InputOutcome>;
   close(): Promise<void>;
 }
