@@ -154,6 +154,15 @@ export function availableCores(): number {
   return os.availableParallelism();
 }
 
+/**
+ * Workers when none are asked for: one per core, but no more than half the machine's memory holds at 450 MB each
+ * (the per-worker ceiling issue 21 sets; bench/batch-speed.md measured 355 MB).
+ */
+export function defaultWorkers(): number {
+  const byMemory = Math.floor((os.totalmem() / 2) / (450 * 1024 * 1024));
+  return Math.max(1, Math.min(availableCores(), byMemory));
+}
+
 /** Who reads the inputs: this thread, or a pool of worker threads each opening its own sessions. */
 function inputReader(options: BatchOptions, workers: number): InputReader {
   const setup: ReadingSetup = {

@@ -1,7 +1,7 @@
 import { stat } from 'node:fs/promises';
 import path from 'node:path';
 import type { Command } from 'commander';
-import { availableCores, runBatch } from '../batch/run-batch.js';
+import { defaultWorkers, runBatch } from '../batch/run-batch.js';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
@@ -95,13 +95,13 @@ export function registerExtractCommand(program: Command): void {
     .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
     .option('--digit-model <file>', 'ONNX digit reader for digit combs (read beside Tesseract, cell by cell)', DEFAULT_DIGIT_MODEL_PATH)
     .option('--no-digit-reader', 'read digit combs with Tesseract alone')
-    .option('--workers <n>', `inputs read at once, each by a worker thread with its own detector and OCR worker (default: the cores, ${availableCores()} here)`)
+    .option('--workers <n>', `inputs read at once, each by a worker thread with its own detector and OCR worker (default: one per core as memory allows, ${defaultWorkers()} here)`)
     .option('--threads <n>', 'onnxruntime intra-op threads of each detector session (default: the cores shared out among the workers)')
     .option('--quiet', 'print only the summary')
     .option('--json-log', 'progress as one JSON object per event on stderr (never field values)')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
       const threads = wholeNumber('--threads', opts.threads);
-      const workers = wholeNumber('--workers', opts.workers) ?? availableCores();
+      const workers = wholeNumber('--workers', opts.workers) ?? defaultWorkers();
       if (opts.quiet && opts.jsonLog) throw configError(undefined, 'extract: --quiet and --json-log cannot be given together');
       if (opts.schema.length === 0) throw configError(undefined, 'extract: --schema <file> is required (a schema file or a folder of them)');
       const outStat = await stat(opts.out).catch(() => null);
