@@ -1,4 +1,5 @@
 import path from 'node:path';
+import { performance } from 'node:perf_hooks';
 import type { Detector } from '../detect/types.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { writeJsonAtomic } from '../io/atomic-write.js';
@@ -6,6 +7,7 @@ import { extractForms, type ExtractOptions } from '../pipeline/extract-document.
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
 import { documentJsonName } from '../results/layout.js';
+import { addStageTimes, emptyStageTimes, type StageTimes } from '../results/stage-times.js';
 import { failedLine, okLine, withRequestedId, type ResultsLine } from '../results/results-line.js';
 import { writeReviewCrops } from '../review/crops.js';
 import type { LoadedSchema } from '../schema/load.js';
@@ -39,6 +41,8 @@ export type ClaimId = (requested: string) => string | Promise<string>;
 export interface InputOutcome {
   lines: ResultsLine[];
   results: DocumentResult[];
+  /** Milliseconds the input's forms spent in each stage, writing included (a failed input: what it got through). */
+  stages?: StageTimes;
 }
 
 /** Same scan, an offered schema and the same model: what a record needs to be reused or to hand its answers on. */
@@ -67,17 +71,21 @@ async function earlierRecords(outDir: string, jsonNames: readonly string[]): Pro
 export async function readInput(job: InputJob, setup: ReadingSetup, claim: ClaimId): Promise<InputOutcome> {
   const lines: ResultsLine[] = [];
   const results: DocumentResult[] = [];
+  const stages = emptyStageTimes();
   try {
     const { schemas, outDir, ...extract } = setup;
     const forms = extractForms(job.file, { ...extract, schema: schemas, documentId: job.stem });
     const earlier = await earlierRecords(outDir, job.earlierJson);
-    for await (const { result: read, pages } of forms) {
+    for await (const { result: read, pages, stages: formStages } of forms) {
+      addStageTimes(stages, formStages);
       const requested = read.document.id;
       read.document.id = await claim(requested);
       const before = earlier.get(read.document.id);
       const result = before && sameInputs(before, read.document.sha256, setup) ? carryReviewedFields(read, before) : read;
+      const written = performance.now();
       await writeJsonAtomic(path.join(outDir, documentJsonName(result.document.id)), result);
       await writeReviewCrops(outDir, result, pages);
+      stages.write += performance.now() - written;
       results.push(result);
       lines.push(withRequestedId(okLine(result), requested));
     }
@@ -86,5 +94,5 @@ export async function readInput(job: InputJob, setup: ReadingSetup, claim: Claim
     const message = err instanceof FormgleanError ? oneLine(err) : `${job.file}: ${oneLine(err)}`;
     lines.push(failedLine(await claim(job.stem), job.recorded, message));
   }
-  return { lines, results };
+  return { lines, results, stages };
 }

@@ -1,7 +1,9 @@
 import { createHash } from 'node:crypto';
 import { constants } from 'node:fs';
 import { access, mkdir, readFile } from 'node:fs/promises';
+import os from 'node:os';
 import path from 'node:path';
+import { performance } from 'node:perf_hooks';
 import type { Detector } from '../detect/types.js';
 import { configError, oneLine } from '../errors.js';
 import { referencePageImage } from '../pipeline/reference-images.js';
@@ -16,9 +18,13 @@ import type { BatchSummary } from '../results/summary.js';
 import { summarize } from '../results/summary.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { removeOrphanTemps } from '../results/temp-files.js';
+import { runRecord, type RunRecord } from '../results/run-record.js';
+import { addStageTimes, emptyStageTimes } from '../results/stage-times.js';
 import { writeReviewQueue } from '../review/queue-write.js';
 import type { LoadedSchema } from '../schema/load.js';
-import { readInput, sameInputs, type ReadingSetup } from './read-input.js';
+import { sameInputs, type ReadingSetup } from './read-input.js';
+import { inThreadReader, type InputReader } from './input-reader.js';
+import { openWorkerPool } from './worker-pool.js';
 import { discoverInputs, documentIds } from './discover.js';
 import { IdClaims } from './id-claims.js';
 
@@ -37,8 +43,21 @@ export interface BatchOptions {
   /** Digit reader for digit combs (see ExtractOptions.digitReader). */
   digitReader?: DigitReader;
   today?: Date;
+  /**
+   * Inputs read at once by worker threads, each with its own detector session (opened from detector.path), digit
+   * reader and OCR worker. 1 (the default): read in this thread with the detector and digit reader given.
+   */
+  workers?: number;
+  /** onnxruntime intra-op threads of each worker's detector session (default: the cores shared out, at least 1). */
+  threadsPerWorker?: number;
+  /** Stop starting inputs: the ones in progress finish, then the index and the review queue are written. */
+  signal?: AbortSignal;
+  /** Called once the inputs are found, before any is read. */
+  onStart?: (event: { inputs: number; workers: number }) => void;
   /** Called after each document; carries no field values. */
   onDocument?: (event: DocumentEvent) => void;
+  /** Called once per input file, when all its documents are written (or it failed); carries no field values. */
+  onInput?: (event: InputEvent) => void;
   /** Warnings about the results folder (an index rebuilt); default: printed on stderr. Never field values. */
   warn?: Warn;
 }
@@ -51,6 +70,23 @@ export interface DocumentEvent {
   reused: boolean;
 }
 
+export interface InputEvent {
+  /** Position of the file among the run's inputs (inputs finish out of order with several workers). */
+  index: number;
+  /** Inputs finished so far, this one included. */
+  done: number;
+  total: number;
+  file: string;
+  /** One line per form the file held (a stack of forms has several), or its failure. */
+  lines: ResultsLine[];
+  /** Kept unchanged from an earlier run (--resume): nothing was read. */
+  reused: boolean;
+  /** Pages read (0 when kept). */
+  pages: number;
+  /** Wall-clock seconds this input took to read (0 when kept). */
+  seconds: number;
+}
+
 export interface BatchReport {
   /** This run's documents. */
   summary: BatchSummary;
@@ -58,7 +94,8 @@ export interface BatchReport {
   folder: BatchSummary;
   /** This run's lines, skipped inputs included. */
   lines: ResultsLine[];
-  results: DocumentResult[];
+  /** Speed, stage times and whether the run was interrupted (summary.json's `run`). */
+  run: RunRecord;
 }
 
 async function sha256Of(file: string): Promise<string> {
@@ -112,12 +149,53 @@ async function checkBeforeWriting(options: BatchOptions): Promise<void> {
   }
 }
 
+/** Cores this process may use (os.availableParallelism, Node >= 18.14). */
+export function availableCores(): number {
+  return os.availableParallelism();
+}
+
+/**
+ * Workers when none are asked for: one per core, but no more than half the machine's memory holds at 450 MB each
+ * (the per-worker ceiling issue 21 sets; bench/batch-speed.md measured 355 MB).
+ */
+export function defaultWorkers(): number {
+  const byMemory = Math.floor((os.totalmem() / 2) / (450 * 1024 * 1024));
+  return Math.max(1, Math.min(availableCores(), byMemory));
+}
+
+/** Who reads the inputs: this thread, or a pool of worker threads each opening its own sessions. */
+function inputReader(options: BatchOptions, workers: number): InputReader {
+  const setup: ReadingSetup = {
+    schemas: options.schemas,
+    detector: options.detector,
+    outDir: options.outDir,
+    deskew: options.deskew,
+    orientation: options.orientation,
+    dropout: options.dropout,
+    digitReader: options.digitReader,
+    today: options.today,
+  };
+  if (workers <= 1) return inThreadReader(setup);
+  // Each worker's detector gets its share of the cores, so W workers do not start W x cores operator threads
+  // (the detector is the only multi-threaded stage; tesseract.js and the digit reader run one thread each).
+  const threads = options.threadsPerWorker ?? Math.max(1, Math.floor(availableCores() / workers));
+  const { detector: _d, digitReader: _r, schemas, ...rest } = setup;
+  return openWorkerPool(
+    { ...rest, schemas: [...schemas], modelPath: options.detector.path, intraOpThreads: threads, digitModelPath: options.digitReader?.path },
+    workers,
+  );
+}
+
 /**
  * Extract every input document into outDir: one JSON per document, review crops, the index (results.jsonl and
  * summary.json) and the review queue. The index is never emptied: each finished input is appended to a journal
  * that any reader replays, and the new index (this run's inputs merged into the previous one, other inputs' records
  * still listed) replaces the old one atomically at the end. A document that fails is recorded with its error and the
  * batch goes on; a configuration error stops it with the folder as it was.
+ *
+ * At most `workers` inputs are in flight, and only their index lines are kept: the review queue is rebuilt from the
+ * records on disk at the end, so memory stays flat however many files the folder holds. When `signal` aborts, no
+ * new input starts; the ones in progress finish and the index and queue are written as for a whole run.
  */
 export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const warn = options.warn ?? warnOnStderr;
@@ -132,48 +210,94 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const inRun = new Set(files.flatMap((f) => [recordedPath(f), f]));
   const claims = new IdClaims(previous.filter((l) => !inRun.has(l.path)));
   const stems = documentIds(files);
-  const lines: ResultsLine[] = [];
-  const results: DocumentResult[] = [];
-  const setup: ReadingSetup = {
-    schemas: options.schemas,
-    detector: options.detector,
-    outDir: options.outDir,
-    deskew: options.deskew,
-    orientation: options.orientation,
-    dropout: options.dropout,
-    digitReader: options.digitReader,
-    today: options.today,
+  const startedAt = new Date();
+  const started = performance.now();
+  const workers = Math.max(1, Math.min(options.workers ?? 1, files.length || 1));
+  const reader = inputReader(options, workers);
+  options.onStart?.({ inputs: files.length, workers });
+  // Lines per input, in input order whatever order the inputs finish in.
+  const perInput: ResultsLine[][] = [];
+  const stages = emptyStageTimes();
+  const count = { read: 0, kept: 0, pages: 0, done: 0 };
+
+  const finish = async (index: number, file: string, fileLines: ResultsLine[], reused: boolean, seconds: number): Promise<void> => {
+    const recorded = recordedPath(file);
+    await appendJournal(options.outDir, { path: recorded, lines: fileLines });
+    perInput[index] = fileLines;
+    const pages = reused ? 0 : fileLines.reduce((a, l) => a + (l.pages ?? 0), 0);
+    count.pages += pages;
+    count.done++;
+    for (const line of fileLines) options.onDocument?.({ index, total: files.length, file, line, reused });
+    options.onInput?.({ index, done: count.done, total: files.length, file, lines: fileLines, reused, pages, seconds });
   };
 
-  for (const [index, file] of files.entries()) {
-    const recorded = recordedPath(file);
-    const own = previous.filter((l) => l.path === recorded || l.path === file);
-    const stem = previousStem(own) ?? (stems.get(file) as string);
-    const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
-    const fileLines: ResultsLine[] = [];
-    if (reused) {
-      for (const r of reused) claims.claim(r.document.id, recorded);
-      results.push(...reused);
-      fileLines.push(...reused.map(okLine));
-    } else {
+  const inFlight = new Set<Promise<void>>();
+  let fatal: unknown = null;
+  try {
+    for (const [index, file] of files.entries()) {
+      if (options.signal?.aborted || fatal !== null) break;
+      const recorded = recordedPath(file);
+      const own = previous.filter((l) => l.path === recorded || l.path === file);
+      const stem = previousStem(own) ?? (stems.get(file) as string);
+      const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
+      if (reused) {
+        for (const r of reused) claims.claim(r.document.id, recorded);
+        count.kept++;
+        await finish(index, file, reused.map(okLine), true, 0);
+        continue;
+      }
       const job = { file, recorded, stem, earlierJson: own.filter((l) => l.ok && l.json).map((l) => l.json as string) };
-      const outcome = await readInput(job, setup, (requested) => claims.claim(requested, recorded));
-      results.push(...outcome.results);
-      fileLines.push(...outcome.lines);
+      const inputStarted = performance.now();
+      count.read++;
+      const task = reader
+        .read(job, (requested) => claims.claim(requested, recorded))
+        .then(async (outcome) => {
+          if (outcome.stages) addStageTimes(stages, outcome.stages);
+          await finish(index, file, outcome.lines, false, (performance.now() - inputStarted) / 1000);
+        })
+        .catch((err: unknown) => {
+          fatal ??= err;
+        })
+        .finally(() => inFlight.delete(task));
+      inFlight.add(task);
+      if (inFlight.size >= reader.concurrency) await Promise.race(inFlight);
     }
-    await appendJournal(options.outDir, { path: recorded, lines: fileLines });
-    lines.push(...fileLines);
-    for (const line of fileLines) options.onDocument?.({ index, total: files.length, file, line, reused: reused !== null });
+    await Promise.all(inFlight);
+  } finally {
+    await reader.close();
   }
+  if (fatal !== null) throw fatal;
 
+  const lines = perInput.filter((l) => l !== undefined).flat();
   const skippedLines = skipped.map((s) => skippedLine(recordedPath(s.path), s.reason));
   const folderLines = mergeLines(previous, [...lines, ...skippedLines]);
-  const folder = await writeIndex(options.outDir, folderLines);
-  const kept = await Promise.all(
-    folderLines
-      .filter((l) => l.ok && l.json && !inRun.has(l.path))
-      .map((l) => readResultsRecord(path.join(options.outDir, l.json as string)).catch(() => null)),
+  const reached = count.read + count.kept;
+  const run = runRecord(
+    {
+      startedAt: startedAt.toISOString(),
+      wallSeconds: (performance.now() - started) / 1000,
+      workers,
+      inputs: { total: files.length, read: count.read, kept: count.kept, notReached: files.length - reached },
+      pages: count.pages,
+      interrupted: reached < files.length,
+      // maxRSS is in kilobytes (Node's process.resourceUsage, getrusage(2)).
+      peakRssMb: Math.round(process.resourceUsage().maxRSS / 1024),
+      cpuSeconds: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000) / 1000,
+    },
+    stages,
   );
-  await writeReviewQueue(options.outDir, [...results, ...kept.filter((r): r is DocumentResult => r !== null)]);
-  return { summary: summarize([...lines, ...skippedLines]), folder, lines: [...lines, ...skippedLines], results };
+  const folder = await writeIndex(options.outDir, folderLines, run);
+  await writeReviewQueue(options.outDir, await recordsListed(options.outDir, folderLines));
+  return { summary: summarize([...lines, ...skippedLines]), folder, lines: [...lines, ...skippedLines], run };
+}
+
+/** Every record the index lists, read back from disk (a record that cannot be read is left out of the queue). */
+async function recordsListed(outDir: string, lines: readonly ResultsLine[]): Promise<DocumentResult[]> {
+  const out: DocumentResult[] = [];
+  for (const l of lines) {
+    if (!l.ok || !l.json) continue;
+    const r = await readResultsRecord(path.join(outDir, l.json)).catch(() => null);
+    if (r) out.push(r);
+  }
+  return out;
 }

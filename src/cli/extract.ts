@@ -1,7 +1,7 @@
 import { stat } from 'node:fs/promises';
 import path from 'node:path';
 import type { Command } from 'commander';
-import { runBatch } from '../batch/run-batch.js';
+import { defaultWorkers, runBatch } from '../batch/run-batch.js';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
@@ -10,6 +10,7 @@ import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
 import { checkReferenceImages } from '../schema/blank-images.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
+import { BatchProgress, type ProgressMode } from './progress.js';
 
 interface ExtractCliOptions {
   schema: string[];
@@ -22,7 +23,54 @@ interface ExtractCliOptions {
   digitModel: string;
   digitReader: boolean;
   threads?: string;
+  workers?: string;
   quiet?: boolean;
+  jsonLog?: boolean;
+}
+
+/** Exit status of a run stopped by a signal: 128 + the signal's number, as POSIX shells report it (common practice). */
+const SIGNAL_EXIT: Record<'SIGINT' | 'SIGTERM', number> = { SIGINT: 130, SIGTERM: 143 };
+
+function wholeNumber(option: string, raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1) throw configError(undefined, `${option}: expected a whole number >= 1 but received "${raw}"`);
+  return n;
+}
+
+/**
+ * Ctrl-C (or SIGTERM) once: no new input starts, the ones in progress finish, the index and the review queue are
+ * written. Twice: stop at once (every finished input is already in the folder's journal, which the next run or
+ * reader replays).
+ */
+function stopOnSignals(progress: () => BatchProgress | null): { signal: AbortSignal; received: () => 'SIGINT' | 'SIGTERM' | null; release: () => void } {
+  const stop = new AbortController();
+  let first: 'SIGINT' | 'SIGTERM' | null = null;
+  const on = (sig: 'SIGINT' | 'SIGTERM') => {
+    if (first === null) {
+      first = sig;
+      stop.abort();
+      const text = `${sig}: finishing the documents in progress, then writing the index and the review queue (press Ctrl-C again to stop at once)`;
+      const p = progress();
+      if (p) p.note('stopping', text);
+      else process.stderr.write(`${text}\n`);
+      return;
+    }
+    process.stderr.write(`${sig} again: stopped at once; finished documents are in the results folder's journal, run again with --resume to go on\n`);
+    process.exit(SIGNAL_EXIT[first]);
+  };
+  const onInt = () => on('SIGINT');
+  const onTerm = () => on('SIGTERM');
+  process.on('SIGINT', onInt);
+  process.on('SIGTERM', onTerm);
+  return {
+    signal: stop.signal,
+    received: () => first,
+    release: () => {
+      process.off('SIGINT', onInt);
+      process.off('SIGTERM', onTerm);
+    },
+  };
 }
 
 function collect(value: string, previous: string[]): string[] {
@@ -48,13 +96,14 @@ export function registerExtractCommand(program: Command): void {
     .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
     .option('--digit-model <file>', 'ONNX digit reader for digit combs (read beside Tesseract, cell by cell)', DEFAULT_DIGIT_MODEL_PATH)
     .option('--no-digit-reader', 'read digit combs with Tesseract alone')
-    .option('--threads <n>', 'onnxruntime intra-op threads')
+    .option('--workers <n>', `inputs read at once, each by a worker thread with its own detector and OCR worker (default: one per core as memory allows, ${defaultWorkers()} here)`)
+    .option('--threads <n>', 'onnxruntime intra-op threads of each detector session (default: the cores shared out among the workers)')
     .option('--quiet', 'print only the summary')
+    .option('--json-log', 'progress as one JSON object per event on stderr (never field values)')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
-      const threads = opts.threads === undefined ? undefined : Number(opts.threads);
-      if (threads !== undefined && (!Number.isInteger(threads) || threads < 1)) {
-        throw configError(undefined, `--threads: expected a whole number >= 1 but received "${opts.threads}"`);
-      }
+      const threads = wholeNumber('--threads', opts.threads);
+      const workers = wholeNumber('--workers', opts.workers) ?? defaultWorkers();
+      if (opts.quiet && opts.jsonLog) throw configError(undefined, 'extract: --quiet and --json-log cannot be given together');
       if (opts.schema.length === 0) throw configError(undefined, 'extract: --schema <file> is required (a schema file or a folder of them)');
       const outStat = await stat(opts.out).catch(() => null);
       if (outStat && !outStat.isDirectory()) throw configError(opts.out, 'the --out path exists and is not a folder');
@@ -69,6 +118,9 @@ export function registerExtractCommand(program: Command): void {
         if (problems.length > 0) throw configError(s.path, problems[0]);
       }
       const digitReader = opts.digitReader ? await DigitReader.open(opts.digitModel) : undefined;
+      const mode: ProgressMode = opts.quiet ? 'quiet' : opts.jsonLog ? 'json' : process.stderr.isTTY ? 'tty' : 'lines';
+      let progress = null as BatchProgress | null;
+      const stop = stopOnSignals(() => progress);
       try {
         const report = await runBatch({
           inputs,
@@ -80,22 +132,30 @@ export function registerExtractCommand(program: Command): void {
           orientation: opts.orientation,
           dropout: opts.dropout,
           digitReader,
-          onDocument: (e) => {
-            if (opts.quiet) return;
-            const name = printable(path.relative(process.cwd(), e.file) || e.file);
-            const l = e.line;
-            const what = l.ok
-              ? `${(l.counts?.accepted ?? 0)} accepted, ${(l.counts?.review ?? 0) + (l.counts?.invalid ?? 0) + (l.counts?.missing ?? 0)} to review${e.reused ? ' (unchanged, kept)' : ''} in ${l.seconds?.toFixed(1)} s`
-              : `FAILED: ${printable(l.error ?? '')}`;
-            process.stderr.write(`[${e.index + 1}/${e.total}] ${name}: ${what}\n`);
-          },
+          workers,
+          threadsPerWorker: threads,
+          signal: stop.signal,
+          onStart: (e) => (progress = new BatchProgress(mode, e.inputs, e.workers)),
+          onInput: (e) => progress?.input(e),
         });
         const s = report.summary;
+        const r = report.run;
+        progress?.finish({ interrupted: r.interrupted, wallSeconds: r.wallSeconds, documents: s.documents });
+        const signal = stop.received();
+        if (signal && r.interrupted) {
+          process.stderr.write(
+            `interrupted by ${signal}: ${r.inputs.notReached} of ${r.inputs.total} input(s) not started; the index and the review queue ` +
+              `list what was read; run the same command with --resume to go on\n`,
+          );
+        } else if (signal) {
+          process.stderr.write(`${signal} came when every input had already started: the run is complete\n`);
+        }
         process.stdout.write(
           `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
             `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
             `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
-            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${printable(opts.out)}\n`,
+            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page, ` +
+            `${r.pagesPerSecond ?? '-'} pages/s with ${r.workers} worker(s). Results in ${printable(opts.out)}\n`,
         );
         // Inputs found in folders but not tried are listed in results.jsonl and summary.json with their reasons.
         const skipped = report.lines.filter((l) => l.skipped !== undefined);
@@ -104,7 +164,10 @@ export function registerExtractCommand(program: Command): void {
           for (const l of skipped) process.stderr.write(`  ${printable(path.relative(process.cwd(), l.path) || l.path)}: ${printable(l.skipped ?? '')}\n`);
         }
         if (s.documents.failed > 0) process.exitCode = 1;
+        if (signal && r.interrupted) process.exitCode = SIGNAL_EXIT[signal];
       } finally {
+        stop.release();
+        progress?.finish({});
         await detector.close();
         await digitReader?.close();
         await closeSharedOcrEngine();

@@ -29,6 +29,8 @@ import { readLocatedField, type FieldReadOutcome } from './read-field.js';
 import { referencePageImage } from './reference-images.js';
 import { refineRegionParts } from './refine-regions.js';
 import type { DigitReader } from '../read/digit-reader.js';
+import { sharedOcrEngine } from '../read/ocr-engine.js';
+import { StageClock, type StageTimes } from '../results/stage-times.js';
 
 export interface ExtractOptions {
   /** One schema, or several: each document is assigned to the layout its first page aligns with best. */
@@ -58,6 +60,8 @@ export interface ExtractedDocument {
   result: DocumentResult;
   /** The form's decoded source pages, in which the result's boxes are given (for review crops and overlays). */
   pages: GrayImage[];
+  /** Milliseconds this form spent in each stage (not part of the record: a re-run must write the same record). */
+  stages: StageTimes;
 }
 
 interface PreparedPage {
@@ -81,30 +85,40 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
   const doc = await openDocument(input, options.limits ?? DEFAULT_LIMITS);
   try {
-    const prepare = async (index: number): Promise<PreparedPage> => {
-      const source = await doc.page(index);
-      const problem = pageProblem(source);
-      if (problem) throw documentError(doc.source, `page ${index + 1} ${problem}`);
+    const prepare = async (index: number, clock: StageClock): Promise<PreparedPage> => {
+      const source = await clock.time('decode', async () => {
+        const page = await doc.page(index);
+        const problem = pageProblem(page);
+        if (problem) throw documentError(doc.source, `page ${index + 1} ${problem}`);
+        return page;
+      });
       const started = performance.now();
-      const normalized = normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true });
-      return { index, source, normalized, detections: await options.detector.detect(normalized.image), ms: performance.now() - started };
+      const normalized = clock.timeSync('normalize', () =>
+        normalizePage(source, { deskew: options.deskew ?? true, orientation: options.orientation ?? true }),
+      );
+      const detections = await clock.time('detect', () => options.detector.detect(normalized.image));
+      return { index, source, normalized, detections, ms: performance.now() - started };
     };
     const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : doc.sha256.slice(0, 12));
     for (let first = 0; first < doc.pageCount; ) {
-      const head = await prepare(first);
+      const clock = new StageClock();
+      const ocrBefore = sharedOcrEngine().busyMs;
+      const head = await prepare(first, clock);
       const started = performance.now();
-      let choice = await chooseLayout(schemas, head.normalized.image, head.detections);
+      const choose = () => clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections));
+      let choice = await choose();
       // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
       // chooses its layout again.
       const upright = options.orientation ?? true;
       // The layout choice registered this page by image already; its score stands for the upright registration.
       const known = choice.alignment.method.startsWith('image') ? choice.alignment.score : undefined;
-      if (upright && (await confirmUpright([head], choice.schema, options.detector, 0, known)).length > 0)
-        choice = await chooseLayout(schemas, head.normalized.image, head.detections);
+      // The upright check's own detector runs count as alignment: they exist only to settle the page's turn.
+      if (upright && (await clock.time('align', () => confirmUpright([head], choice.schema, options.detector, 0, known))).length > 0)
+        choice = await choose();
       const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
       const formPages = [head];
-      for (let i = 1; i < count; i++) formPages.push(await prepare(first + i));
-      if (upright && count > 1) await confirmUpright(formPages, choice.schema, options.detector, 1);
+      for (let i = 1; i < count; i++) formPages.push(await prepare(first + i, clock));
+      if (upright && count > 1) await clock.time('align', () => confirmUpright(formPages, choice.schema, options.detector, 1));
       const stacked = first > 0 || first + count < doc.pageCount;
       const id = stacked ? `${stem}.p${first + 1}` : stem;
       const result = await extractForm(formPages, choice, schemas.length, {
@@ -112,9 +126,11 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
         id,
         source: typeof input === 'string' ? recordedPath(input) : '<buffer>',
         sha256: doc.sha256,
+        clock,
       });
       result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
-      yield { result, pages: formPages.map((p) => p.source) };
+      clock.ms.ocr = sharedOcrEngine().busyMs - ocrBefore;
+      yield { result, pages: formPages.map((p) => p.source), stages: clock.ms };
       first += count;
     }
   } finally {
@@ -139,9 +155,9 @@ async function extractForm(
   formPages: readonly PreparedPage[],
   choice: LayoutChoice,
   candidates: number,
-  options: ExtractOptions & { id: string; source: string; sha256: string },
+  options: ExtractOptions & { id: string; source: string; sha256: string; clock: StageClock },
 ): Promise<DocumentResult> {
-  const { detector } = options;
+  const { detector, clock } = options;
   const loaded = choice.schema;
   const schema = loaded.schema;
   const typeContext = { today: options.today ?? new Date() };
@@ -150,7 +166,8 @@ async function extractForm(
   const read: { lf: LocatedField; outcome: FieldReadOutcome; toSource: Affine; alignment: Alignment }[] = [];
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
-    const alignment: Alignment = p === 0 ? choice.alignment : await alignToSchemaPage(loaded, p, normalized.image, detections);
+    const alignment: Alignment =
+      p === 0 ? choice.alignment : await clock.time('align', () => alignToSchemaPage(loaded, p, normalized.image, detections));
     const misfit = alignmentProblem(alignment) !== null;
     pages.push({
       index: p,
@@ -171,27 +188,33 @@ async function extractForm(
       fields.push(...pageFields.map((f) => unreadField(f, 'review', ...why)));
       continue;
     }
-    const located = locateFields(pageFields, detections, alignment.refToPage, {
-      ...DEFAULT_LOCATE,
-      preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
+    const { located, reference, ocrPage } = await clock.time('locate', async () => {
+      const located = locateFields(pageFields, detections, alignment.refToPage, {
+        ...DEFAULT_LOCATE,
+        preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
+      });
+      const reference = await referencePageImage(loaded, p);
+      if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
+      const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
+      return { located, reference, ocrPage };
     });
-    const reference = await referencePageImage(loaded, p);
-    if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
-    const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
     for (const lf of located) {
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
-      const outcome = await readLocatedField(lf, type, typeOptions, {
-        page: normalized.image,
-        ocrPage,
-        reference,
-        padding: schema.defaults.padding,
-        typeContext,
-        digitReader: options.digitReader,
-      });
+      const outcome = await clock.time('read', () =>
+        readLocatedField(lf, type, typeOptions, {
+          page: normalized.image,
+          ocrPage,
+          reference,
+          padding: schema.defaults.padding,
+          typeContext,
+          digitReader: options.digitReader,
+        }),
+      );
       read.push({ lf, outcome, toSource, alignment });
     }
   }
+  const scoreStarted = performance.now();
 
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
@@ -209,6 +232,7 @@ async function extractForm(
   for (const f of schema.fields.filter((x) => x.page >= formPages.length)) fields.push(unreadField(f, f.required ? 'missing' : 'review', 'page_missing'));
   const order = new Map(schema.fields.map((f, i) => [f.name, i]));
   fields.sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
+  clock.ms.score += performance.now() - scoreStarted;
 
   return {
     format: RESULT_FORMAT,

@@ -1,5 +1,6 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
+import { performance } from 'node:perf_hooks';
 import { createWorker, OEM, PSM, type Worker } from 'tesseract.js';
 import type { OcrMode, OcrWord, TextReading } from '../fields/types.js';
 import type { GrayImage } from '../image/raster.js';
@@ -67,6 +68,12 @@ export class OcrEngine {
   private worker: Promise<Worker> | null = null;
   private queue: Promise<unknown> = Promise.resolve();
   private lastParams = '';
+  private busy = 0;
+
+  /** Milliseconds tesseract has spent recognizing since this engine was made (setting parameters included). */
+  get busyMs(): number {
+    return this.busy;
+  }
 
   private start(): Promise<Worker> {
     this.worker ??= createWorker('eng', OEM.LSTM_ONLY, {
@@ -93,13 +100,14 @@ export class OcrEngine {
       // resolution tesseract's documentation recommends (tessdoc "Improving the quality of the output", from memory).
       user_defined_dpi: '300',
     };
+    const png = await grayToPng(image);
+    const started = performance.now();
     const key = JSON.stringify(params);
     if (key !== this.lastParams) {
       await worker.setParameters(params);
       this.lastParams = key;
     }
-    const png = await grayToPng(image);
-    const { data } = await worker.recognize(png, {}, { text: true, blocks: true });
+    const { data } = await worker.recognize(png, {}, { text: true, blocks: true }).finally(() => (this.busy += performance.now() - started));
     const page = data as unknown as TesseractPage;
     return { kind: 'text', text: page.text.trim(), words: wordsOf(page), confidence: page.confidence / 100 };
   }

@@ -4,6 +4,7 @@ import path from 'node:path';
 import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
 import { JOURNAL_FILE, RESULTS_FILE, SUMMARY_FILE } from './layout.js';
 import type { ResultsLine } from './results-line.js';
+import type { RunRecord } from './run-record.js';
 import type { BatchSummary } from './summary.js';
 import { summarize } from './summary.js';
 
@@ -23,12 +24,12 @@ export function indexSha256(text: string): string {
 
 /**
  * Write the complete index: results.jsonl, then summary.json (which records the index's hash, so a summary left
- * behind by a cut-off run is recognized and rewritten), then drop the journal the index now holds. Each write is
+ * behind by a cut-off run is recognized and rewritten, and the run that wrote it when one did), then drop the journal the index now holds. Each write is
  * atomic; the old index stays whole until the new one replaces it.
  */
-export async function writeIndex(dir: string, lines: readonly ResultsLine[]): Promise<BatchSummary> {
+export async function writeIndex(dir: string, lines: readonly ResultsLine[], run?: RunRecord): Promise<BatchSummary> {
   const text = indexText(lines);
-  const summary = { ...summarize(lines), index: { file: RESULTS_FILE, sha256: indexSha256(text) } };
+  const summary = { ...summarize(lines), ...(run ? { run } : {}), index: { file: RESULTS_FILE, sha256: indexSha256(text) } };
   await writeFileAtomic(path.join(dir, RESULTS_FILE), text);
   await writeJsonAtomic(path.join(dir, SUMMARY_FILE), summary);
   await rm(path.join(dir, JOURNAL_FILE), { force: true });
