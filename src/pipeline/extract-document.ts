@@ -196,8 +196,7 @@ async function extractForm(
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
   for (const [i, { lf, outcome, toSource, alignment }] of read.entries()) {
-    const threshold = lf.field.reviewThreshold ?? schema.defaults.reviewThreshold;
-    const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i], alignment);
+    const field = buildFieldResult(lf, outcome, schema.defaults.reviewThreshold, toSource, legibility[i], alignment);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
       if (field.status === 'accepted') field.status = 'review';

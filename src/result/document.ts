@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { Script } from '../fields/script.js';
 
 /** Version of the result JSON contract; bump on breaking changes. */
 export const RESULT_FORMAT = 1;
@@ -33,6 +34,14 @@ export const FieldResult = z.object({
   box: ResultBox.nullable(),
   /** Where the box came from: a detection, or the schema region after alignment. */
   source: z.enum(['detection', 'region', 'none']),
+  /** Whether the entry is machine-printed or handwritten (src/fields/script.ts); absent for marks, signatures, blank
+   *  areas, and in records written before the decision existed. */
+  script: Script.optional(),
+  /** The decision's evidence: P(handwritten), 0..1. */
+  scriptEvidence: z.number().min(0).max(1).optional(),
+  /** Which confidence map stated the confidence: the schema field's own, the shipped one for its type and script,
+   *  or none (raw). Absent in records written before shipped maps existed. */
+  calibration: z.enum(['field', 'shipped', 'none']).optional(),
   /** Component scores that make up the confidence, each 0..1. */
   scores: z.record(z.string(), z.number()),
   /** Per-part details: fill ratios of a choice group's boxes, cleanup variants tried, ... */

@@ -1,0 +1,51 @@
+import type { Interpretation, OcrMode, TextReading } from '../fields/types.js';
+import type { ReasonCode } from '../fields/reasons.js';
+import type { Box } from '../image/geometry.js';
+import type { GrayImage } from '../image/raster.js';
+import type { BlankPart } from '../read/blank-crop.js';
+import type { Padding } from '../read/crop.js';
+import { readTextField } from '../read/read-text.js';
+import type { CleanupVariant } from '../read/cleanup/pipeline.js';
+import { ADAPTIVE, STANDARD } from '../read/variants.js';
+
+/** Reason code: a handwritten value with digits read differently from a second, differently cleaned crop. */
+export const SECOND_READ_DISAGREES: ReasonCode = 'ambiguous_second_read';
+
+/**
+ * The second read's cleanup: a different binarization from the one that gave the kept value (Sauvola's local
+ * threshold against Otsu's global one, bench/cleanup-gain.ts measured them as the two strongest recipes that miss
+ * different fields), so one crop's binarization accident is not read twice.
+ */
+export function secondVariant(kept: string | undefined): CleanupVariant {
+  return kept === ADAPTIVE.name ? STANDARD : ADAPTIVE;
+}
+
+export interface SecondRead {
+  agree: boolean;
+  variant: string;
+}
+
+/**
+ * Read the field again from a differently cleaned crop and say whether its value is the same (pure but for the OCR
+ * call). Agreement needs a valid value equal to the kept one; a second read that fails the type's checks or reads
+ * nothing does not confirm it.
+ */
+export async function secondRead(
+  page: GrayImage,
+  box: Box,
+  kept: { reading: TextReading; interpretation: Interpretation },
+  read: { padding: Padding; mode: OcrMode; allowed?: string; comb: boolean; blank?: BlankPart },
+  interpret: (r: TextReading) => Interpretation,
+): Promise<SecondRead> {
+  const variant = secondVariant(kept.reading.variant);
+  const again = await readTextField(page, box, { ...read, skew: 0, variants: [variant] });
+  const second = interpret(again.reading);
+  const agree = second.outcome === 'valid' && JSON.stringify(second.value) === JSON.stringify(kept.interpretation.value);
+  return { agree, variant: variant.name };
+}
+
+/** The kept interpretation, sent to review with the reason when the second read disagrees. */
+export function withSecondRead(interpretation: Interpretation, check: SecondRead): Interpretation {
+  if (check.agree) return interpretation;
+  return { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, SECOND_READ_DISAGREES] };
+}
