@@ -16,6 +16,8 @@
  *    ("none" without measures: marks, signatures, blank areas) and by type; isotonic maps and review thresholds by
  *    formglean's own calibration (src/eval/calibration-thresholds.ts), each script group with its own target
  *    error among accepted fields, with a margin (the issue's targets: 0.5 % printed, 1 % handwriting).
+ * With --from-pages the crop measures are taken afresh from the sample pages at the truth boxes (OCR's word
+ * confidence still from the results): to try a change of the measures without extracting again.
  * Without --write-* it prints what it would write. Prints no field values.
  */
 import path from 'node:path';
@@ -29,6 +31,9 @@ import { roundLevel, roundThreshold } from '../src/eval/calibration-schema.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
 import { scoreAll } from '../src/eval/score.js';
 import { DEFAULT_BINS } from '../src/eval/reliability.js';
+import { cropGray, grayFromImage, type GrayImage } from '../src/image/raster.js';
+import { scriptMeasures } from '../src/read/script-measures.js';
+import { readdir } from 'node:fs/promises';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const { values: args } = parseArgs({
@@ -41,9 +46,10 @@ const { values: args } = parseArgs({
     'printed-target': { type: 'string', default: '0.003' },
     'handwritten-target': { type: 'string', default: '0.006' },
     note: { type: 'string', default: '' },
+    'from-pages': { type: 'boolean', default: false },
   },
 });
-if (!args.generated || !args.real) throw new Error('--generated DIR and --real DIR are both needed (see the header)');
+if (!args.generated) throw new Error('--generated DIR is needed (see the header); --real DIR too for the maps');
 
 interface Sample {
   source: 'generated' | 'real';
@@ -62,10 +68,30 @@ async function collect(dir: string, source: Sample['source']): Promise<Sample[]>
   const inputs = await loadScoreInputs(path.join(dir, 'results'), path.join(dir, 'samples'));
   const { items } = scoreAll({ ...inputs, bins: DEFAULT_BINS });
   const out: Sample[] = [];
+  const pageFiles = new Map<string, string>();
+  if (args['from-pages']) {
+    for (const sub of await readdir(path.join(dir, 'samples'))) {
+      const files = await readdir(path.join(dir, 'samples', sub)).catch(() => [] as string[]);
+      for (const f of files) if (f.endsWith('.png') && !f.endsWith('.blank.png')) pageFiles.set(f.replace(/\.png$/, ''), path.join(dir, 'samples', sub, f));
+    }
+  }
+  let page: { doc: string; image: GrayImage } | null = null;
   for (const i of items) {
     const r = inputs.results.get(i.document)?.fields.find((f) => f.name === i.field);
     const t = inputs.truth.get(i.document)?.fields.find((f) => f.name === i.field);
-    const measured = r?.details?.script as (ScriptInputs & { components: number }) | undefined;
+    let measured = r?.details?.script as (ScriptInputs & { components: number }) | undefined;
+    if (args['from-pages']) {
+      measured = undefined;
+      const file = pageFiles.get(i.document);
+      if (file && t?.box && t.text) {
+        if (page?.doc !== i.document) page = { doc: i.document, image: await grayFromImage(file) };
+        const [x, y, w, h] = t.box.map(Math.round);
+        const box = { x: Math.max(0, x), y: Math.max(0, y), w: Math.min(w, page.image.width - x), h: Math.min(h, page.image.height - y) };
+        const m = box.w > 0 && box.h > 0 ? scriptMeasures(cropGray(page.image, box)) : null;
+        const wc = (r?.details?.script as { wordConfidence?: number | null } | undefined)?.wordConfidence ?? null;
+        if (m) measured = { ...m, wordConfidence: wc } as ScriptInputs & { components: number };
+      }
+    }
     out.push({
       source,
       document: i.document,
@@ -82,7 +108,7 @@ async function collect(dir: string, source: Sample['source']): Promise<Sample[]>
   return out;
 }
 
-const all = [...(await collect(args.generated, 'generated')), ...(await collect(args.real, 'real'))];
+const all = [...(await collect(args.generated, 'generated')), ...(args.real ? await collect(args.real, 'real') : [])];
 const labeled = (s: Sample) => s.inputs !== null && s.written && (s.fill === 'typed' || s.fill === 'handwriting');
 const train = all.filter((s) => s.source === 'generated' && labeled(s));
 const valid = all.filter((s) => s.source === 'real' && labeled(s));

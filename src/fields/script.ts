@@ -8,7 +8,7 @@ export const Script = z.enum(['printed', 'handwritten']);
 export type Script = z.infer<typeof Script>;
 
 /** The inputs of the decision, in the model's order: the crop measures (src/read/script-measures.ts) and OCR's words. */
-export const SCRIPT_FEATURES = ['strokeSpread', 'heightSpread', 'baselineSpread', 'heightShare', 'strokeShare', 'wordConfidence'] as const;
+export const SCRIPT_FEATURES = ['strokeSpread', 'heightSpread', 'baselineSpread', 'heightShare', 'strokeShare', 'axisShare', 'aspect', 'wordConfidence'] as const;
 export type ScriptFeature = (typeof SCRIPT_FEATURES)[number];
 
 /**
@@ -46,6 +46,8 @@ export function scriptInputs(measures: ScriptMeasures, reading: Reading | null):
     baselineSpread: measures.baselineSpread,
     heightShare: measures.heightShare,
     strokeShare: measures.strokeShare,
+    axisShare: measures.axisShare,
+    aspect: measures.aspect,
     wordConfidence: words.length ? words.reduce((s, w) => s + w.confidence, 0) / words.length : null,
   };
 }

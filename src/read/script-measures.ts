@@ -18,6 +18,11 @@ import type { GrayImage } from '../image/raster.js';
  * - heightShare: median glyph height over the height of the area read. Hands write larger in a box than a form's
  *   font types (common practice), and the generator fills them that way (src/synth/fill.ts drawPen).
  * - strokeShare: median stroke width over the median glyph height (a pen's line against its letters' size).
+ * - axisShare: share of the ink's edge strength (Sobel gradient magnitude inside the glyphs' boxes) whose direction
+ *   lies within 15° of horizontal or vertical. Type is built of upright stems and flat bars; a hand slants and
+ *   curves (edge-direction distributions: common practice in telling print from handwriting, cited from memory).
+ * - aspect: median width over height of the glyph components. Joined-up writing makes wide components of several
+ *   letters; type gives one per letter.
  * - components: glyph components measured.
  */
 export interface ScriptMeasures {
@@ -28,6 +33,8 @@ export interface ScriptMeasures {
   baselineSpread: number | null;
   heightShare: number;
   strokeShare: number;
+  axisShare: number;
+  aspect: number;
   components: number;
 }
 
@@ -92,9 +99,43 @@ export function scriptMeasures(crop: GrayImage): ScriptMeasures | null {
   return {
     strokeSpread: round3(coefficientOfVariation(runs)),
     heightSpread: kept.length >= MIN_GLYPHS ? round3(meanDeviation(heights) / mh) : null,
-    baselineSpread: kept.length >= MIN_GLYPHS ? round3(meanDeviation(kept.map((c) => c.box.y + c.box.h)) / mh) : null,
+    // Capped at 1: a glyph a full height off the line is a second line or a stray mark, not a drifting baseline.
+    baselineSpread: kept.length >= MIN_GLYPHS ? round3(Math.min(1, meanDeviation(kept.map((c) => c.box.y + c.box.h)) / mh)) : null,
     heightShare: round3(mh / height),
     strokeShare: round3(stroke / mh),
+    axisShare: round3(axisShare(crop, kept)),
+    aspect: round3(median(kept.map((c) => c.box.w / c.box.h))),
     components: kept.length,
   };
+}
+
+/** Within this angle of horizontal or vertical an edge counts as axis-aligned (common practice for "straight" strokes). */
+const AXIS_TOLERANCE_DEG = 15;
+
+/** Share of gradient magnitude, inside the glyphs' boxes, pointing within AXIS_TOLERANCE_DEG of an axis. */
+function axisShare(img: GrayImage, glyphBoxes: readonly Component[]): number {
+  const { width, height, data } = img;
+  const inside = new Uint8Array(width * height);
+  for (const c of glyphBoxes) {
+    for (let y = Math.max(1, c.box.y - 1); y < Math.min(height - 1, c.box.y + c.box.h + 1); y++)
+      for (let x = Math.max(1, c.box.x - 1); x < Math.min(width - 1, c.box.x + c.box.w + 1); x++) inside[y * width + x] = 1;
+  }
+  const tan = Math.tan((AXIS_TOLERANCE_DEG * Math.PI) / 180);
+  let axis = 0;
+  let total = 0;
+  for (let y = 1; y < height - 1; y++) {
+    for (let x = 1; x < width - 1; x++) {
+      const i = y * width + x;
+      if (!inside[i]) continue;
+      const gx = data[i - width + 1] + 2 * data[i + 1] + data[i + width + 1] - data[i - width - 1] - 2 * data[i - 1] - data[i + width - 1];
+      const gy = data[i + width - 1] + 2 * data[i + width] + data[i + width + 1] - data[i - width - 1] - 2 * data[i - width] - data[i - width + 1];
+      const ax = Math.abs(gx);
+      const ay = Math.abs(gy);
+      const mag = Math.hypot(gx, gy);
+      if (mag === 0) continue;
+      total += mag;
+      if (Math.min(ax, ay) <= tan * Math.max(ax, ay)) axis += mag;
+    }
+  }
+  return total > 0 ? axis / total : 0;
 }
