@@ -25,6 +25,15 @@ export const ScriptModel = z
     bias: z.number(),
     /** P(handwritten) from which an entry counts as handwritten. */
     threshold: z.number().min(0).max(1),
+    /**
+     * The form's other entries as evidence: one person usually fills one form with one pen (or one typewriter), so
+     * the final log-odds are field × the entry's own log-odds + form × the median log-odds of the form's measured
+     * entries + bias, when the form has at least minFields of them (else the entry's own log-odds alone).
+     */
+    context: z
+      .object({ field: z.number(), form: z.number(), bias: z.number(), minFields: z.number().int().min(1) })
+      .strict()
+      .optional(),
   })
   .strict()
   .refine((m) => m.mean.length === m.features.length && m.scale.length === m.features.length && m.weights.length === m.features.length, {
@@ -52,14 +61,29 @@ export function scriptInputs(measures: ScriptMeasures, reading: Reading | null):
   };
 }
 
-/** P(handwritten) under a model. */
-export function handwritingProbability(inputs: ScriptInputs, m: ScriptModel = SHIPPED_SCRIPT_MODEL): number {
+/** The entry's own log-odds of handwriting under a model (its measures alone). */
+export function entryLogOdds(inputs: ScriptInputs, m: ScriptModel = SHIPPED_SCRIPT_MODEL): number {
   let z = m.bias;
   m.features.forEach((f, i) => {
     const v = inputs[f];
     if (v !== null && Number.isFinite(v)) z += (m.weights[i] * (v - m.mean[i])) / m.scale[i];
   });
-  return 1 / (1 + Math.exp(-z));
+  return z;
+}
+
+const sigmoid = (z: number) => 1 / (1 + Math.exp(-z));
+
+/** P(handwritten) of an entry on its own measures. */
+export function handwritingProbability(inputs: ScriptInputs, m: ScriptModel = SHIPPED_SCRIPT_MODEL): number {
+  return sigmoid(entryLogOdds(inputs, m));
+}
+
+/** Median of the entries' own log-odds, when there are enough of them for the model's context; else null. */
+export function formLogOdds(own: readonly number[], m: ScriptModel = SHIPPED_SCRIPT_MODEL): number | null {
+  if (!m.context || own.length < m.context.minFields) return null;
+  const s = [...own].sort((a, b) => a - b);
+  const k = s.length >> 1;
+  return s.length % 2 ? s[k] : (s[k - 1] + s[k]) / 2;
 }
 
 export interface ScriptDecision {
@@ -68,7 +92,17 @@ export interface ScriptDecision {
   handwriting: number;
 }
 
-export function decideScript(inputs: ScriptInputs, m: ScriptModel = SHIPPED_SCRIPT_MODEL): ScriptDecision {
-  const p = handwritingProbability(inputs, m);
+/** The decision for one entry, with the form's median log-odds (formLogOdds) when known. */
+export function decideScript(inputs: ScriptInputs, m: ScriptModel = SHIPPED_SCRIPT_MODEL, form: number | null = null): ScriptDecision {
+  const own = entryLogOdds(inputs, m);
+  const z = m.context && form !== null ? m.context.field * own + m.context.form * form + m.context.bias : own;
+  const p = sigmoid(z);
   return { script: p >= m.threshold ? 'handwritten' : 'printed', handwriting: Math.round(p * 1000) / 1000 };
+}
+
+/** Decisions for every entry of one form (null where nothing was measured), each with the form as context. */
+export function decideScripts(entries: readonly (ScriptInputs | null)[], m: ScriptModel = SHIPPED_SCRIPT_MODEL): (ScriptDecision | undefined)[] {
+  const own = entries.flatMap((e) => (e ? [entryLogOdds(e, m)] : []));
+  const form = formLogOdds(own, m);
+  return entries.map((e) => (e ? decideScript(e, m, form) : undefined));
 }

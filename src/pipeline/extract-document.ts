@@ -28,6 +28,7 @@ import { buildFieldResult } from './field-result.js';
 import { readLocatedField, type FieldReadOutcome } from './read-field.js';
 import { referencePageImage } from './reference-images.js';
 import { refineRegionParts } from './refine-regions.js';
+import { settleScripts } from './second-read.js';
 import type { DigitReader } from '../read/digit-reader.js';
 
 export interface ExtractOptions {
@@ -193,6 +194,8 @@ async function extractForm(
     }
   }
 
+  // Scripts are decided once the whole form is read (one writer, one pen), and handwritten digits get their second read.
+  await settleScripts(read.map((r) => r.outcome));
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
   for (const [i, { lf, outcome, toSource, alignment }] of read.entries()) {

@@ -13,9 +13,9 @@ import { readDigitComb } from '../read/digit-comb.js';
 import type { DigitReader } from '../read/digit-reader.js';
 import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
 import { scriptMeasures } from '../read/script-measures.js';
-import { decideScript, scriptInputs, type ScriptDecision } from '../fields/script.js';
+import { scriptInputs, type ScriptDecision, type ScriptInputs } from '../fields/script.js';
 import { carriesDigits } from '../fields/digit-scrutiny.js';
-import { secondRead, withSecondRead } from './second-read.js';
+import { secondRead, type SecondRead } from './second-read.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -23,8 +23,12 @@ export interface FieldReadOutcome {
   interpretation: Interpretation | null;
   /** Cleanup variants tried, mark measurements: kept in the result's details (no field values). */
   details: Record<string, unknown>;
-  /** Printed or handwritten, for an OCR field with ink to measure (src/fields/script.ts). */
+  /** The entry's own script evidence, for an OCR field with ink to measure (src/fields/script.ts). */
+  scriptEntry?: ScriptInputs;
+  /** Printed or handwritten: set once the whole form is read (settleScripts). */
   script?: ScriptDecision;
+  /** A second, independent read of a valid value with digits, asked for when the entry is handwritten. */
+  recheck?: () => Promise<SecondRead>;
 }
 
 export interface ReadFieldContext {
@@ -93,29 +97,30 @@ export async function readLocatedField(
         details.digitCells = checked.details;
       }
     }
-    // Print or handwriting, from the ink in the located box on the scanned page (the dropout page has lost the
-    // strokes that crossed printed rules) and OCR's word confidences.
-    let script: ScriptDecision | undefined;
+    // Print or handwriting is decided once the whole form is read (the form's other entries are evidence too:
+    // src/fields/script.ts decideScripts); here the entry's own measures are taken, from the ink in the located box
+    // on the scanned page (the dropout page has lost strokes that crossed printed rules) and OCR's word confidences.
+    let scriptEntry: ScriptInputs | undefined;
     if (interpretation.outcome !== 'empty') {
       const measures = scriptMeasures(cropField(ctx.page, box, 0).image);
       if (measures) {
-        const inputs = scriptInputs(measures, reading);
-        script = decideScript(inputs);
-        details.script = { ...inputs, wordConfidence: inputs.wordConfidence === null ? null : round3(inputs.wordConfidence), components: measures.components };
+        scriptEntry = scriptInputs(measures, reading);
+        details.script = { ...scriptEntry, wordConfidence: scriptEntry.wordConfidence === null ? null : round3(scriptEntry.wordConfidence), components: measures.components };
       }
     }
-    const pattern = (options as { pattern?: unknown } | null)?.pattern;
-    if (script?.script === 'handwritten' && interpretation.outcome === 'valid' && carriesDigits(type.name, hints.allowed, pattern)) {
-      // A handwritten digit misread still makes a valid value: a second reader must agree. The digit reader, where
-      // it read the comb, is that second reader; otherwise a differently cleaned crop is read again.
+    // A handwritten digit misread still makes a valid value, so such a value needs a second reader's agreement
+    // (src/pipeline/second-read.ts), asked for once the form's scripts are decided. The digit reader, where it read
+    // the comb, is that second reader; otherwise a differently cleaned crop is read again.
+    let recheck: FieldReadOutcome['recheck'];
+    if (interpretation.outcome === 'valid' && carriesDigits(type.name, hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
       const cells = details.digitCells as { agree: boolean } | undefined;
-      const check = cells
-        ? { agree: cells.agree, variant: 'digit_cells' }
-        : await secondRead(ctx.ocrPage ?? ctx.page, box, { reading, interpretation }, { padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
-            type.interpret(withoutPrintedLabel(r, field.label), options, ctx.typeContext),
-          );
-      interpretation = withSecondRead(interpretation, check);
-      details.secondRead = check;
+      const kept = { reading, interpretation };
+      recheck = cells
+        ? async () => ({ agree: cells.agree, variant: 'digit_cells' })
+        : () =>
+            secondRead(ctx.ocrPage ?? ctx.page, box, kept, { padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
+              type.interpret(withoutPrintedLabel(r, field.label), options, ctx.typeContext),
+            );
     }
     if (blank && interpretation.outcome !== 'empty' && writingPastEdge(ctx.page, blank)) {
       // The value may be cut off at the region's edge: never accepted as read.
@@ -129,7 +134,7 @@ export async function readLocatedField(
         interpretation = { value: null, outcome: 'ambiguous', confidence: 0, reasons: ['ambiguous_unread_writing'] };
       }
     }
-    return { reading, interpretation, details, ...(script ? { script } : {}) };
+    return { reading, interpretation, details, ...(scriptEntry ? { scriptEntry } : {}), ...(recheck && interpretation.outcome === 'valid' ? { recheck } : {}) };
   }
 
   const boxes = located.parts.filter((p): p is typeof p & { box: Box } => p.box !== null);

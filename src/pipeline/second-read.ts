@@ -7,6 +7,8 @@ import type { Padding } from '../read/crop.js';
 import { readTextField } from '../read/read-text.js';
 import type { CleanupVariant } from '../read/cleanup/pipeline.js';
 import { ADAPTIVE, STANDARD } from '../read/variants.js';
+import { decideScripts } from '../fields/script.js';
+import type { FieldReadOutcome } from './read-field.js';
 
 /** Reason code: a handwritten value with digits read differently from a second, differently cleaned crop. */
 export const SECOND_READ_DISAGREES: ReasonCode = 'ambiguous_second_read';
@@ -48,4 +50,19 @@ export async function secondRead(
 export function withSecondRead(interpretation: Interpretation, check: SecondRead): Interpretation {
   if (check.agree) return interpretation;
   return { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, SECOND_READ_DISAGREES] };
+}
+
+/**
+ * Once a form is read: decide each OCR entry's script with the form's other entries as evidence (src/fields/script.ts),
+ * then give every handwritten value with digits its second read, sending it to review where the two disagree.
+ */
+export async function settleScripts(outcomes: readonly FieldReadOutcome[]): Promise<void> {
+  const decisions = decideScripts(outcomes.map((o) => o.scriptEntry ?? null));
+  for (const [i, o] of outcomes.entries()) {
+    o.script = decisions[i];
+    if (o.script?.script !== 'handwritten' || !o.recheck || o.interpretation?.outcome !== 'valid') continue;
+    const check = await o.recheck();
+    o.interpretation = withSecondRead(o.interpretation, check);
+    o.details.secondRead = check;
+  }
 }
