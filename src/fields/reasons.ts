@@ -89,7 +89,7 @@ export const REASONS = {
   },
   ambiguous_second_read: {
     effect: 'review',
-    meaning: 'A handwritten value with digits (date, amount, postal code, phone, ID) read differently from a second, differently cleaned crop.',
+    meaning: 'A handwritten value with digits (date, amount, postal code, phone, ID) that a second reader (the handwritten-digit reader, or OCR of a differently cleaned crop) read differently.',
     check: 'Each digit against the crop; a swapped or misread digit still makes a valid value.',
   },
   ambiguous_unread_writing: {

@@ -15,7 +15,7 @@ import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
 import { scriptMeasures } from '../read/script-measures.js';
 import { scriptInputs, type ScriptDecision, type ScriptInputs } from '../fields/script.js';
 import { carriesDigits } from '../fields/digit-scrutiny.js';
-import { secondRead, type SecondRead } from './second-read.js';
+import { glyphSecondRead, secondRead, type SecondRead } from './second-read.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -109,15 +109,18 @@ export async function readLocatedField(
       }
     }
     // A handwritten digit misread still makes a valid value, so such a value needs a second reader's agreement
-    // (src/pipeline/second-read.ts), asked for once the form's scripts are decided. The digit reader, where it read
-    // the comb, is that second reader; otherwise a differently cleaned crop is read again.
+    // (src/pipeline/second-read.ts), asked for once the form's scripts are decided: the digit reader's cells where
+    // it read a comb, else the digit reader glyph by glyph, else (no digit reader) a differently cleaned crop.
     let recheck: FieldReadOutcome['recheck'];
     if (interpretation.outcome === 'valid' && carriesDigits(type.name, hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
       const cells = details.digitCells as { agree: boolean } | undefined;
       const kept = { reading, interpretation };
+      const digitReader = ctx.digitReader;
       recheck = cells
         ? async () => ({ agree: cells.agree, variant: 'digit_cells' })
-        : () =>
+        : digitReader
+          ? () => glyphSecondRead(cropField(ctx.page, box, 0).image, kept, digitReader)
+          : () =>
             secondRead(ctx.ocrPage ?? ctx.page, box, kept, { padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
               type.interpret(withoutPrintedLabel(r, field.label), options, ctx.typeContext),
             );

@@ -8,9 +8,11 @@ import { readTextField } from '../read/read-text.js';
 import type { CleanupVariant } from '../read/cleanup/pipeline.js';
 import { ADAPTIVE, STANDARD } from '../read/variants.js';
 import { decideScripts } from '../fields/script.js';
+import { readDigitGlyphs } from '../read/digit-glyphs.js';
+import type { DigitReader } from '../read/digit-reader.js';
 import type { FieldReadOutcome } from './read-field.js';
 
-/** Reason code: a handwritten value with digits read differently from a second, differently cleaned crop. */
+/** Reason code: a handwritten value with digits that a second reader read differently. */
 export const SECOND_READ_DISAGREES: ReasonCode = 'ambiguous_second_read';
 
 /**
@@ -44,6 +46,21 @@ export async function secondRead(
   const second = interpret(again.reading);
   const agree = second.outcome === 'valid' && JSON.stringify(second.value) === JSON.stringify(kept.interpretation.value);
   return { agree, variant: variant.name };
+}
+
+/** The digits of a text, in order. */
+const digitsOf = (text: string) => text.replace(/[^0-9]/g, '');
+
+/**
+ * The second read by another reader: the digit reader, glyph by glyph (src/read/digit-glyphs.ts). Tesseract reading
+ * a crop twice repeats its own confusions (on the demo's handwritten slip both binarizations read 2.8 as 2.5 and
+ * 93841 as 73891); a network trained on handwritten digits errs elsewhere. Agreement: the same digits in the same
+ * order as the kept reading's text.
+ */
+export async function glyphSecondRead(crop: GrayImage, kept: { reading: TextReading }, reader: DigitReader): Promise<SecondRead> {
+  const glyphRead = await readDigitGlyphs(crop, reader);
+  const want = digitsOf(kept.reading.text);
+  return { agree: glyphRead !== null && want.length > 0 && glyphRead.digits === want, variant: 'digit_glyphs' };
 }
 
 /** The kept interpretation, sent to review with the reason when the second read disagrees. */

@@ -65,7 +65,7 @@ const round3 = (v: number) => Math.round(v * 1000) / 1000;
  * no long flat or tall thin stroke (the same shape test as typicalHeight), and at least a quarter of the typical
  * height (dots, commas and specks carry no height or baseline).
  */
-function glyphs(components: Component[]): Component[] {
+export function glyphs(components: Component[]): Component[] {
   const h = typicalHeight(components);
   if (h === null) return [];
   return components.filter((c) => !c.touchesBorder && c.box.h >= Math.max(3, 0.25 * h) && c.box.w <= 6 * c.box.h && c.box.h <= 8 * c.box.w);
