@@ -5,7 +5,7 @@ import { cropGray } from '../../src/image/raster.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { scriptMeasures } from '../../src/read/script-measures.js';
-import { decideScript, scriptInputs, ScriptModel, SHIPPED_SCRIPT_MODEL } from '../../src/fields/script.js';
+import { decideScript, decideScripts, scriptInputs, ScriptModel, SHIPPED_SCRIPT_MODEL, SCRIPT_FEATURES, type ScriptInputs } from '../../src/fields/script.js';
 
 /**
  * The shipped print/handwriting decision on real pixels: invented entries written into a printed box with the
@@ -42,6 +42,20 @@ describe('print or handwriting', () => {
     const d = await decide(text, font, size);
     expect(d.script).toBe(script);
     expect(d.handwriting >= SHIPPED_SCRIPT_MODEL.threshold).toBe(script === 'handwritten');
+  });
+
+  it("takes the form's other entries as evidence (one writer, one pen)", async () => {
+    const entry = async (text: string, font: FontKey, size: number) => {
+      const { page, box } = await entryBox(text, font, size, 440);
+      return scriptInputs(scriptMeasures(cropGray(page, box))!, (await readTextField(page, box)).reading);
+    };
+    const hand = [await entry('Maple Cove', 'caveat', 38), await entry('Juniper Ashgrove', 'pen', 38), await entry('14 Harbour Lane', 'caveat', 38)];
+    const typed = [await entry('Maple Cove', 'sans', 26), await entry('Juniper Ashgrove', 'serif', 26), await entry('14 Harbour Lane', 'sans', 26)];
+    // An entry with nothing to tell (every measure at the model's mean) goes with the form it is on.
+    const undecided = Object.fromEntries(SCRIPT_FEATURES.map((f) => [f, SHIPPED_SCRIPT_MODEL.mean[SHIPPED_SCRIPT_MODEL.features.indexOf(f)] ?? null])) as ScriptInputs;
+    expect(decideScripts([...hand, undecided]).map((d) => d?.script)).toEqual(['handwritten', 'handwritten', 'handwritten', 'handwritten']);
+    expect(decideScripts([...typed, undecided]).map((d) => d?.script)).toEqual(['printed', 'printed', 'printed', 'printed']);
+    expect(decideScripts([null, hand[0]])[0]).toBeUndefined();
   });
 
   it('has nothing to measure in an empty box', async () => {
