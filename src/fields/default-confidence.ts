@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { confidenceMapProblem, type ConfidenceMapPoints } from './confidence-map.js';
 import type { Script } from './script.js';
+import type { FactorWeights } from './scoring.js';
 import shipped from './default-confidence.json' with { type: 'json' };
 
 /**
@@ -30,17 +31,27 @@ const Entry = z
     if (problem) ctx.addIssue({ code: 'custom', message: problem });
   });
 
+const Weights = z
+  .object({ location: z.number().min(0), ocr: z.number().min(0), value: z.number().min(0), legibility: z.number().min(0), checks: z.number().min(0) })
+  .strict();
+
 export const DefaultConfidence = z
   .object({
     note: z.string(),
+    /**
+     * Per script group: the powers of the confidence factors (src/fields/scoring.ts) in the product the group's maps
+     * read, from a logistic regression of rightness on the factors' logarithms (negative powers set to 0: no factor
+     * may count against a field). Absent for a group: the plain product.
+     */
+    factorWeights: z.record(z.string(), Weights).default({}),
     /** Error among accepted fields each group's thresholds were chosen for. */
     targetError: z.record(z.string(), z.number()),
     maps: z.record(z.string(), Entry),
   })
   .strict();
-export type DefaultConfidence = z.infer<typeof DefaultConfidence>;
+export type DefaultConfidence = z.input<typeof DefaultConfidence>;
 
-export const SHIPPED_CONFIDENCE: DefaultConfidence = DefaultConfidence.parse(shipped);
+export const SHIPPED_CONFIDENCE = DefaultConfidence.parse(shipped);
 
 /** Review threshold of a field scored on its raw confidence: no map of its own, none shipped (common practice). */
 export const DEFAULT_REVIEW_THRESHOLD = 0.75;
@@ -50,6 +61,8 @@ export interface FieldCalibrationChoice {
   threshold: number;
   /** Where the map came from: the schema field's own (calibrate), the shipped default for its type and script, or none. */
   from: 'field' | 'shipped' | 'none';
+  /** The factor powers a shipped map reads (absent: the plain product). */
+  factorWeights?: FactorWeights;
 }
 
 /**
@@ -68,5 +81,6 @@ export function chooseCalibration(
   if (field.confidenceMap) return { map: field.confidenceMap, threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'field' };
   const entry = table.maps[`${group}/${field.type}`] ?? table.maps[`${group}/*`];
   if (!entry) return { threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'none' };
-  return { map: entry.points, threshold: set ?? entry.threshold, from: 'shipped' };
+  const weights = table.factorWeights?.[group];
+  return { map: entry.points, threshold: set ?? entry.threshold, from: 'shipped', ...(weights ? { factorWeights: weights } : {}) };
 }

@@ -67,6 +67,7 @@ export function buildFieldResult(
     reviewThreshold: calibration.threshold,
     required: field.required,
     confidenceMap: calibration.map,
+    factorWeights: calibration.factorWeights,
     legibility,
     alignment: alignmentEvidence(located, alignment),
   });

@@ -3,10 +3,13 @@ import { chooseCalibration, DEFAULT_REVIEW_THRESHOLD, DefaultConfidence, SHIPPED
 import { applyConfidenceMap } from '../../src/fields/confidence-map.js';
 import { FieldResult } from '../../src/result/document.js';
 import { FormSchema } from '../../src/schema/definition.js';
+import { scoreField } from '../../src/fields/scoring.js';
+import type { Interpretation, TextReading } from '../../src/fields/types.js';
 
 const table: DefaultConfidence = {
   note: 'test table',
   targetError: { printed: 0.005, handwritten: 0.01 },
+  factorWeights: { printed: { location: 0, ocr: 2, value: 1, legibility: 1, checks: 1 } },
   maps: {
     'printed/date': { points: [[0, 0.2], [0.8, 0.999]], threshold: 0.99, samples: 100, errors: 3 },
     'handwritten/*': { points: [[0, 0.1], [0.9, 0.995]], threshold: 0.99, samples: 100, errors: 30 },
@@ -27,6 +30,32 @@ describe('shipped confidence maps per type and script', () => {
     expect(handDate.map).toEqual(table.maps['handwritten/*'].points);
     const printedText = chooseCalibration({ type: 'text' }, 'printed', undefined, table);
     expect(printedText).toEqual({ threshold: DEFAULT_REVIEW_THRESHOLD, from: 'none' });
+  });
+
+  it('a shipped map reads the weighted product; scores.raw stays the plain product calibrate fits on', () => {
+    const choice = chooseCalibration({ type: 'date' }, 'printed', undefined, table);
+    expect(choice.factorWeights).toEqual(table.factorWeights!.printed);
+    const reading: TextReading = { kind: 'text', text: '03/14/2024', words: [{ text: '03/14/2024', confidence: 0.9 }], confidence: 0.9 };
+    const interpretation: Interpretation = { value: '2024-03-14', outcome: 'valid', confidence: 1, reasons: [] };
+    const s = scoreField({
+      detectionScore: 0.5,
+      source: 'detection',
+      reading,
+      interpretation,
+      reviewThreshold: choice.threshold,
+      required: false,
+      confidenceMap: choice.map,
+      factorWeights: choice.factorWeights,
+    });
+    // location 0.8 + 0.2 x 0.5 = 0.9 (scoring.ts), OCR 0.9: plain product 0.81; weighted: 0.9^0 x 0.9^2 = 0.81 too,
+    // but a weaker detection no longer lowers it.
+    expect(s.scores.raw).toBe(0.81);
+    expect(s.scores.weighted).toBe(0.81);
+    const weak = scoreField({ detectionScore: 0, source: 'detection', reading, interpretation, reviewThreshold: choice.threshold, required: false, confidenceMap: choice.map, factorWeights: choice.factorWeights });
+    expect(weak.scores.raw).toBe(0.72);
+    expect(weak.scores.weighted).toBe(0.81);
+    expect(weak.confidence).toBe(0.999);
+    expect(weak.status).toBe('accepted');
   });
 
   it("a field's own map wins; a threshold the schema sets applies to the mapped confidence", () => {
