@@ -21,7 +21,9 @@ import type { ReasonCode } from './reasons.js';
  * under the default threshold 0.75 while a clean read with a middling detection score is accepted.
  *
  * With a confidence map (fitted on labeled forms by `formglean calibrate`) the product above is the raw
- * confidence, kept in `scores.raw`, and the stated confidence is the map's accuracy at it.
+ * confidence, kept in `scores.raw`, and the stated confidence is the map's accuracy at it. A shipped map
+ * (default-confidence.ts) reads the factors each raised to a fitted power instead (`factorWeights`, kept in
+ * `scores.weighted`); `scores.raw` stays the plain product either way.
  *
  * Status: missing when required and nothing was located or read; invalid when the value fails its type's checks;
  * review when the evidence is ambiguous or the confidence is under the review threshold; accepted otherwise. An
