@@ -219,9 +219,10 @@ for (const layout of layouts) {
   }
 }
 
-// The shipped demo schemas: maps and thresholds fitted on every development page of the layout, typed and
-// handwriting together (a demo schema does not know which it will get), kept in src/synth/demo/calibration.json so
-// that npm run samples:make writes the same schemas.
+// Per-field maps for the demo schemas (an option; the shipped demo schemas carry none and are stated with the shipped
+// maps per type and script, src/fields/default-confidence.json): maps and thresholds fitted on every development page
+// of the layout, typed and handwriting together, kept in src/synth/demo/calibration.json so that npm run samples:make
+// writes the same schemas.
 if (args['write-schemas']) {
   const calibration: Record<string, DemoCalibration> = {};
   for (const layout of layouts) {

@@ -1,4 +1,5 @@
 import { readFile } from 'node:fs/promises';
+import { DEFAULT_REVIEW_THRESHOLD } from '../fields/default-confidence.js';
 import path from 'node:path';
 import { configError } from '../errors.js';
 import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
@@ -165,7 +166,7 @@ export async function runCalibrate(options: CalibrateOptions): Promise<Calibrate
   const { proposal, fields, documents } = calibrateSamples(samples, schema, { targetError, minSamples });
   const target = checkTarget(proposal);
 
-  const current = new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold]));
+  const current = new Map(schema.fields.map((f) => [f.name, f.reviewThreshold ?? schema.defaults.reviewThreshold ?? DEFAULT_REVIEW_THRESHOLD]));
   const note =
     ` reviewThreshold values calibrated by formglean calibrate on ${documents} ${labels === 'truth' ? 'labeled' : 'reviewed'} documents ` +
     `(${samples.length} labeled fields), ` +

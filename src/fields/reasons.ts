@@ -87,6 +87,11 @@ export const REASONS = {
     meaning: 'Tesseract read a digit comb confidently, and the handwritten-digit reader read it as other digits.',
     check: 'Each digit against the crop.',
   },
+  ambiguous_second_read: {
+    effect: 'review',
+    meaning: 'A handwritten value with digits (date, amount, postal code, phone, ID) that a second reader (the handwritten-digit reader, or OCR of a differently cleaned crop) read differently.',
+    check: 'Each digit against the crop; a swapped or misread digit still makes a valid value.',
+  },
   ambiguous_unread_writing: {
     effect: 'review',
     meaning: 'The recogniser read nothing, but there are pen strokes in the area.',

@@ -22,7 +22,9 @@ import type { FieldSource, ReadStatus } from '../result/document.js';
  * under the default threshold 0.75 while a clean read with a middling detection score is accepted.
  *
  * With a confidence map (fitted on labeled forms by `formglean calibrate`) the product above is the raw
- * confidence, kept in `scores.raw`, and the stated confidence is the map's accuracy at it.
+ * confidence, kept in `scores.raw`, and the stated confidence is the map's accuracy at it. A shipped map
+ * (default-confidence.ts) reads the factors each raised to a fitted power instead (`factorWeights`, kept in
+ * `scores.weighted`); `scores.raw` stays the plain product either way.
  *
  * Status: missing when required and nothing was located or read; invalid when the value fails its type's checks;
  * review when the evidence is ambiguous or the confidence is under the review threshold; accepted otherwise. An
@@ -40,6 +42,18 @@ export interface ScoreInput {
   legibility?: number;
   /** How well the field's page aligned, for a field read at its schema region (source 'region'). */
   alignment?: AlignmentEvidence;
+  /** Powers of the factors in the product the confidence map reads (a shipped map's, default-confidence.ts);
+   *  absent: the plain product. */
+  factorWeights?: FactorWeights;
+}
+
+/** The confidence factors by name, as a shipped map weighs them (each a power, >= 0). */
+export interface FactorWeights {
+  location: number;
+  ocr: number;
+  value: number;
+  legibility: number;
+  checks: number;
 }
 
 /** What is known of a page's alignment at one field (src/page/alignment.ts, src/page/local-refine.ts). */
@@ -189,8 +203,15 @@ export function scoreField(input: ScoreInput): FieldScore {
   const checks = interpretation.outcome === 'invalid' ? INVALID_FACTOR : 1;
   const raw = clamp01(location * read * interpretation.confidence * legible * checks);
   if (confidenceMap) scores.raw = round3(raw);
+  // A shipped map may read a weighted product instead (each factor to its fitted power); scores.raw stays the plain
+  // product, which is what `formglean calibrate` fits a field's own map on.
+  const weights = input.factorWeights;
+  const mapped = weights
+    ? clamp01(location ** weights.location * read ** weights.ocr * clamp01(interpretation.confidence) ** weights.value * legible ** weights.legibility * checks ** weights.checks)
+    : raw;
+  if (confidenceMap && weights) scores.weighted = round3(mapped);
   // Not rounded to 3 decimals when mapped: a map's levels near 1 differ in the fourth (0.9968 vs 0.9991).
-  const confidence = confidenceMap ? clamp01(applyConfidenceMap(confidenceMap, round3(raw))) : round3(raw);
+  const confidence = confidenceMap ? clamp01(applyConfidenceMap(confidenceMap, round3(mapped))) : round3(raw);
   reasons.push(...interpretation.reasons);
 
   let status: FieldScore['status'];

@@ -1,3 +1,4 @@
+import { digitsOnly } from '../fields/digit-scrutiny.js';
 import { ocrFactor } from '../fields/scoring.js';
 import type { Interpretation, TextReading } from '../fields/types.js';
 import type { ReasonCode } from '../fields/reasons.js';
@@ -21,9 +22,7 @@ export const DOUBTFUL_OCR = 0.9;
  * type's allowed characters or, for free text, a schema pattern that names no letters (`^[0-9]{6}$`, `\d{5}`).
  */
 export function isDigitComb(comb: boolean, allowed: string | undefined, pattern: unknown): boolean {
-  if (!comb) return false;
-  if (allowed !== undefined) return /[0-9]/.test(allowed) && !/[A-Za-z]/.test(allowed);
-  return typeof pattern === 'string' && /\[0-9\]|\\d/.test(pattern) && !/[A-Za-z]/.test(pattern.replace(/\\d/g, ''));
+  return comb && digitsOnly(allowed, pattern);
 }
 
 export interface CrossChecked {

@@ -28,6 +28,7 @@ import { buildFieldResult } from './field-result.js';
 import { readLocatedField, type FieldReadOutcome } from './read-field.js';
 import { referencePageImage } from './reference-images.js';
 import { refineRegionParts } from './refine-regions.js';
+import { settleScripts } from './second-read.js';
 import type { DigitReader } from '../read/digit-reader.js';
 import { sharedOcrEngine } from '../read/ocr-engine.js';
 import { StageClock, type StageTimes } from '../results/stage-times.js';
@@ -216,11 +217,12 @@ async function extractForm(
   }
   const scoreStarted = performance.now();
 
+  // Scripts are decided once the whole form is read (one writer, one pen), and handwritten digits get their second read.
+  await settleScripts(read.map((r) => r.outcome));
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
   for (const [i, { lf, outcome, toSource, alignment }] of read.entries()) {
-    const threshold = lf.field.reviewThreshold ?? schema.defaults.reviewThreshold;
-    const field = buildFieldResult(lf, outcome, threshold, toSource, legibility[i], alignment);
+    const field = buildFieldResult(lf, outcome, schema.defaults.reviewThreshold, toSource, legibility[i], alignment);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
       if (field.status === 'accepted') field.status = 'review';

@@ -1,4 +1,5 @@
 import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
+import { chooseCalibration } from '../fields/default-confidence.js';
 import type { Alignment } from '../page/alignment.js';
 import type { Affine } from '../image/geometry.js';
 import { transformBox, unionBox } from '../image/geometry.js';
@@ -49,21 +50,24 @@ function alignmentEvidence(located: LocatedField, alignment: Alignment | undefin
 export function buildFieldResult(
   located: LocatedField,
   outcome: FieldReadOutcome,
-  reviewThreshold: number,
+  schemaThreshold: number | undefined,
   toSource: Affine,
   legibility = 1,
   alignment?: Alignment,
 ): FieldResult {
   const { field } = located;
   const { source, detectionScore } = overallSource(located);
+  // The entry's script picks the shipped map (a blank area or a mark has none: group "none").
+  const calibration = chooseCalibration(field, outcome.script?.script ?? 'none', schemaThreshold);
   const score = scoreField({
     detectionScore,
     source,
     reading: outcome.reading,
     interpretation: outcome.interpretation,
-    reviewThreshold,
+    reviewThreshold: calibration.threshold,
     required: field.required,
-    confidenceMap: field.confidenceMap,
+    confidenceMap: calibration.map,
+    factorWeights: calibration.factorWeights,
     legibility,
     alignment: alignmentEvidence(located, alignment),
   });
@@ -87,6 +91,8 @@ export function buildFieldResult(
     reasons,
     box: srcBox ? { page: field.page, x: round1(srcBox.x), y: round1(srcBox.y), w: round1(srcBox.w), h: round1(srcBox.h) } : null,
     source,
+    ...(outcome.script ? { script: outcome.script.script, scriptEvidence: outcome.script.handwriting } : {}),
+    calibration: calibration.from,
     scores: score.scores,
     ...(Object.keys(outcome.details).length ? { details: outcome.details } : {}),
   };

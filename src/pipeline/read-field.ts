@@ -12,6 +12,10 @@ import type { BlankPart } from '../read/blank-crop.js';
 import { readDigitComb } from '../read/digit-comb.js';
 import type { DigitReader } from '../read/digit-reader.js';
 import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
+import { scriptMeasures } from '../read/script-measures.js';
+import { scriptInputs, type ScriptDecision, type ScriptInputs } from '../fields/script.js';
+import { carriesDigits } from '../fields/digit-scrutiny.js';
+import { glyphSecondRead, secondRead, type SecondRead } from './second-read.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -19,6 +23,12 @@ export interface FieldReadOutcome {
   interpretation: Interpretation | null;
   /** Cleanup variants tried, mark measurements: kept in the result's details (no field values). */
   details: Record<string, unknown>;
+  /** The entry's own script evidence, for an OCR field with ink to measure (src/fields/script.ts). */
+  scriptEntry?: ScriptInputs;
+  /** Printed or handwritten: set once the whole form is read (settleScripts). */
+  script?: ScriptDecision;
+  /** A second, independent read of a valid value with digits, asked for when the entry is handwritten. */
+  recheck?: () => Promise<SecondRead>;
 }
 
 export interface ReadFieldContext {
@@ -87,6 +97,34 @@ export async function readLocatedField(
         details.digitCells = checked.details;
       }
     }
+    // Print or handwriting is decided once the whole form is read (the form's other entries are evidence too:
+    // src/fields/script.ts decideScripts); here the entry's own measures are taken, from the ink in the located box
+    // on the scanned page (the dropout page has lost strokes that crossed printed rules) and OCR's word confidences.
+    let scriptEntry: ScriptInputs | undefined;
+    if (interpretation.outcome !== 'empty') {
+      const measures = scriptMeasures(cropField(ctx.page, box, 0).image);
+      if (measures) {
+        scriptEntry = scriptInputs(measures, reading);
+        details.script = { ...scriptEntry, wordConfidence: scriptEntry.wordConfidence === null ? null : round3(scriptEntry.wordConfidence), components: measures.components };
+      }
+    }
+    // A handwritten digit misread still makes a valid value, so such a value needs a second reader's agreement
+    // (src/pipeline/second-read.ts), asked for once the form's scripts are decided: the digit reader's cells where
+    // it read a comb, else the digit reader glyph by glyph, else (no digit reader) a differently cleaned crop.
+    let recheck: FieldReadOutcome['recheck'];
+    if (interpretation.outcome === 'valid' && carriesDigits(type.name, hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
+      const cells = details.digitCells as { agree: boolean } | undefined;
+      const kept = { reading, interpretation };
+      const digitReader = ctx.digitReader;
+      recheck = cells
+        ? async () => ({ agree: cells.agree, variant: 'digit_cells' })
+        : digitReader
+          ? () => glyphSecondRead(cropField(ctx.page, box, 0).image, kept, digitReader)
+          : () =>
+            secondRead(ctx.ocrPage ?? ctx.page, box, kept, { padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
+              type.interpret(withoutPrintedLabel(r, field.label), options, ctx.typeContext),
+            );
+    }
     if (blank && interpretation.outcome !== 'empty' && writingPastEdge(ctx.page, blank)) {
       // The value may be cut off at the region's edge: never accepted as read.
       interpretation = { ...interpretation, outcome: 'ambiguous', reasons: [...interpretation.reasons, 'writing_past_edge'] };
@@ -99,7 +137,7 @@ export async function readLocatedField(
         interpretation = { value: null, outcome: 'ambiguous', confidence: 0, reasons: ['ambiguous_unread_writing'] };
       }
     }
-    return { reading, interpretation, details };
+    return { reading, interpretation, details, ...(scriptEntry ? { scriptEntry } : {}), ...(recheck && interpretation.outcome === 'valid' ? { recheck } : {}) };
   }
 
   const boxes = located.parts.filter((p): p is typeof p & { box: Box } => p.box !== null);

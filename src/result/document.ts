@@ -10,6 +10,10 @@ export type FieldStatus = z.infer<typeof FieldStatus>;
 export const ReadStatus = FieldStatus.exclude(['corrected', 'confirmed']);
 export type ReadStatus = z.infer<typeof ReadStatus>;
 
+/** Whether an entry is machine-printed or handwritten (decided in src/fields/script.ts). */
+export const Script = z.enum(['printed', 'handwritten']);
+export type Script = z.infer<typeof Script>;
+
 /** Where a field's box came from: a detection, or the schema region after alignment; none when neither. */
 export const FieldSource = z.enum(['detection', 'region', 'none']);
 export type FieldSource = z.infer<typeof FieldSource>;
@@ -44,6 +48,14 @@ export const FieldResult = z.object({
   /** Where the field was read, in source pixels of the (un-rotated) input page. */
   box: ResultBox.nullable(),
   source: FieldSource,
+  /** Whether the entry is machine-printed or handwritten (src/fields/script.ts); absent for marks, signatures, blank
+   *  areas, and in records written before the decision existed. */
+  script: Script.optional(),
+  /** The decision's evidence: P(handwritten), 0..1. */
+  scriptEvidence: z.number().min(0).max(1).optional(),
+  /** Which confidence map stated the confidence: the schema field's own, the shipped one for its type and script,
+   *  or none (raw). Absent in records written before shipped maps existed. */
+  calibration: z.enum(['field', 'shipped', 'none']).optional(),
   /** Component scores that make up the confidence, each 0..1. */
   scores: z.record(z.string(), z.number()),
   /** Per-part details: fill ratios of a choice group's boxes, cleanup variants tried, ... */

@@ -85,10 +85,18 @@ export const FormSchema = z
     defaults: z
       .object({
         padding: Padding.default(4),
-        reviewThreshold: z.number().min(0).max(1).default(0.75),
+        reviewThreshold: z
+          .number()
+          .min(0)
+          .max(1)
+          .optional()
+          .describe(
+            'Confidence under which a field goes to review, for every field without its own. Absent: the shipped ' +
+              'threshold of the field\'s type and script (src/fields/default-confidence.json), or 0.75 on the raw confidence.',
+          ),
       })
       .strict()
-      .default({ padding: 4, reviewThreshold: 0.75 }),
+      .default({ padding: 4 }),
     fields: z.array(FieldSpec).min(1),
   })
   .strict();

@@ -3,9 +3,11 @@ import type { DemoLayoutName } from './layouts.js';
 import calibration from './demo/calibration.json' with { type: 'json' };
 
 /**
- * Confidence maps and review thresholds of the demo schemas, fitted by formglean's own calibration on the
- * development set (`npx tsx bench/eval-set.ts --set dev --write-schemas`, which writes demo/calibration.json and
- * regenerates the schemas). Kept as data beside the layouts so that `npm run samples:make` writes the same schemas.
+ * Per-field confidence maps and review thresholds for the demo schemas, when fitted by formglean's own calibration
+ * on the development set (`npx tsx bench/eval-set.ts --set dev --write-schemas`, which writes demo/calibration.json;
+ * `npm run samples:make` then regenerates the schemas). Kept as data beside the layouts so that samples:make writes
+ * the same schemas. Empty as shipped: the demo schemas use the shipped maps per type and script
+ * (src/fields/default-confidence.json) like any schema drafted for a new layout.
  */
 export interface DemoCalibration {
   /** Where the values come from, written as a comment at the top of the schema. */

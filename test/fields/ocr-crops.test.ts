@@ -1,13 +1,11 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { escapeXml, svgDocument } from '../../src/image/svg.js';
-import { rasterizeSvg } from '../../src/synth/rasterize.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import { scoreField } from '../../src/fields/scoring.js';
 import type { FieldType } from '../../src/fields/types.js';
 import type { FontKey } from '../../src/image/fonts.js';
-import { FONT_FAMILIES } from '../../src/image/fonts.js';
+import { entryBox } from './entry-box.js';
 import { TODAY } from './context.js';
 
 /**
@@ -16,16 +14,6 @@ import { TODAY } from './context.js';
  * The expected values come from the outside references named in the string tests (ISO 8601, E.164 via
  * libphonenumber-js, Canada Post, RFC 5322); the written text is invented demo data.
  */
-async function entryBox(text: string, font: FontKey = 'sans', size = 24) {
-  const W = 420;
-  const H = 64;
-  const box = { x: 10, y: 8, w: 400, h: 48 };
-  const body =
-    `<rect x="${box.x}" y="${box.y}" width="${box.w}" height="${box.h}" fill="none" stroke="black" stroke-width="2"/>` +
-    `<text x="${box.x + 12}" y="${box.y + box.h / 2 + size * 0.36}" font-family="${FONT_FAMILIES[font]}" font-size="${size}">${escapeXml(text)}</text>`;
-  return { page: await rasterizeSvg(svgDocument(W, H, body)), box };
-}
-
 async function readField(type: string, written: string, options: unknown, font: FontKey = 'sans') {
   const t: FieldType<unknown> = getFieldType(type);
   const o = t.options.parse(options);

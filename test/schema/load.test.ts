@@ -31,7 +31,9 @@ describe('schema file loading', () => {
     const file = await tempFile('ok.yaml', GOOD);
     const loaded = await loadSchema(file);
     expect(loaded.schema.fields.map((f) => f.name)).toEqual(['owner_name', 'visit_date', 'reminders']);
-    expect(loaded.schema.defaults.reviewThreshold).toBe(0.75);
+    // No schema-wide threshold unless the file sets one: the shipped per type and script thresholds apply.
+    expect(loaded.schema.defaults.reviewThreshold).toBeUndefined();
+    expect(loaded.schema.defaults.padding).toBe(4);
     expect(loaded.schema.fields[1].page).toBe(0);
     expect(loaded.sha256).toMatch(/^[0-9a-f]{64}$/);
   });
