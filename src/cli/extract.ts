@@ -9,6 +9,9 @@ import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
 import { checkReferenceImages, checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
+import type { LoadedSchema } from '../schema/load.js';
+import type { Detector } from '../detect/types.js';
+import type { BatchSummary } from '../results/summary.js';
 
 interface ExtractCliOptions {
   schema: string[];
@@ -24,8 +27,37 @@ interface ExtractCliOptions {
   quiet?: boolean;
 }
 
-function collect(value: string, previous: string[]): string[] {
+export function collect(value: string, previous: string[]): string[] {
   return [...previous, value];
+}
+
+/** A required --schema option, loaded, each schema's blank reference images found: the checks before any reading. */
+export async function loadSchemasChecked(paths: readonly string[], command: string): Promise<LoadedSchema[]> {
+  if (paths.length === 0) throw configError(undefined, `${command}: --schema <file> is required (a schema file or a folder of them)`);
+  const schemas = await loadSchemas(paths);
+  for (const s of schemas) {
+    const missing = await checkReferenceImages(s);
+    if (missing.length > 0) throw configError(s.path, missing[0]);
+  }
+  return schemas;
+}
+
+/** Every field class a schema names is one the detector knows. */
+export function checkSchemasAgainstDetector(schemas: readonly LoadedSchema[], detector: Detector): void {
+  for (const s of schemas) {
+    const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
+    if (problems.length > 0) throw configError(s.path, problems[0]);
+  }
+}
+
+/** The one-line summary of a batch that extract and queue collect print. */
+export function summaryText(s: BatchSummary, out: string): string {
+  return (
+    `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
+    `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
+    `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
+    `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${printable(out)}\n`
+  );
 }
 
 /** Share as a whole percentage, or '-' when there is nothing to count. */
@@ -33,20 +65,23 @@ function percent(share: number | null): string {
   return share === null ? '-' : `${Math.round(share * 100)} %`;
 }
 
-export function registerExtractCommand(program: Command): void {
-  program
-    .command('extract')
-    .description('Read scanned forms into checked JSON records, a review queue and a summary')
+/** What every command that reads forms takes: the inputs, the schemas and model, and how pages are read. */
+export function readingOptions(cmd: Command): Command {
+  return cmd
     .argument('<inputs...>', 'scans (png, jpeg, tiff, webp, pdf), folders or glob patterns')
     .option('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .requiredOption('--out <dir>', 'results folder')
-    .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--no-deskew', 'do not correct small page skew')
     .option('--no-orientation', 'do not look for pages turned by 90, 180 or 270 degrees')
     .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
     .option('--digit-model <file>', 'ONNX digit reader for digit combs (read beside Tesseract, cell by cell)', DEFAULT_DIGIT_MODEL_PATH)
-    .option('--no-digit-reader', 'read digit combs with Tesseract alone')
+    .option('--no-digit-reader', 'read digit combs with Tesseract alone');
+}
+
+export function registerExtractCommand(program: Command): void {
+  readingOptions(program.command('extract').description('Read scanned forms into checked JSON records, a review queue and a summary'))
+    .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--threads <n>', 'onnxruntime intra-op threads')
     .option('--quiet', 'print only the summary')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
@@ -54,19 +89,11 @@ export function registerExtractCommand(program: Command): void {
       if (threads !== undefined && (!Number.isInteger(threads) || threads < 1)) {
         throw configError(undefined, `--threads: expected a whole number >= 1 but received "${opts.threads}"`);
       }
-      if (opts.schema.length === 0) throw configError(undefined, 'extract: --schema <file> is required (a schema file or a folder of them)');
       const outStat = await stat(opts.out).catch(() => null);
+      const schemas = await loadSchemasChecked(opts.schema, 'extract');
       if (outStat && !outStat.isDirectory()) throw configError(opts.out, 'the --out path exists and is not a folder');
-      const schemas = await loadSchemas(opts.schema);
-      for (const s of schemas) {
-        const missing = await checkReferenceImages(s);
-        if (missing.length > 0) throw configError(s.path, missing[0]);
-      }
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
-      for (const s of schemas) {
-        const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
-        if (problems.length > 0) throw configError(s.path, problems[0]);
-      }
+      checkSchemasAgainstDetector(schemas, detector);
       const digitReader = opts.digitReader ? await DigitReader.open(opts.digitModel) : undefined;
       try {
         const report = await runBatch({
@@ -90,12 +117,7 @@ export function registerExtractCommand(program: Command): void {
           },
         });
         const s = report.summary;
-        process.stdout.write(
-          `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
-            `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
-            `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
-            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page. Results in ${printable(opts.out)}\n`,
-        );
+        process.stdout.write(summaryText(s, opts.out));
         // Inputs found in folders but not tried are listed in results.jsonl and summary.json with their reasons.
         const skipped = report.lines.filter((l) => l.skipped !== undefined);
         if (skipped.length > 0) {
