@@ -124,6 +124,17 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
     lastError = '';
   });
 
+  // The claims client sees an outage too (BullMQ's own clients reconnect without an 'error' for a clean close).
+  let down = false;
+  redis.on('close', () => {
+    if (!down) log(`queue connection lost; reconnecting to ${target.masked}`);
+    down = true;
+  });
+  redis.on('ready', () => {
+    if (down) log('queue connection: back');
+    down = false;
+  });
+
   const stop = async (): Promise<void> => {
     await worker.close();
   };

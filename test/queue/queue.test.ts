@@ -91,6 +91,16 @@ async function dumpRedis(url: string): Promise<string> {
   }
 }
 
+/** The server's run id: a new one on every start (Redis INFO server, run_id). */
+async function serverRunId(url: string): Promise<string> {
+  const client = new Redis(url);
+  try {
+    return /run_id:(\w+)/.exec(await client.info('server'))?.[1] ?? '';
+  } finally {
+    client.disconnect();
+  }
+}
+
 describe('queue: workers on one Redis', () => {
   it('two worker processes share a batch: every document once, no field value in Redis, the password never printed', async (ctx) => {
     skipUnlessPresent(ctx, missing);
@@ -175,13 +185,17 @@ describe('queue: workers on one Redis', () => {
       const out = path.join(work, 'restart', 'out');
       expect((await queueCli(['submit', scans, '--schema', SCHEMA, '--out', out], redis)).code).toBe(0);
       const worker = startWorker(redis, ['--lock-seconds', '20']);
+      // The second document is in hand when the server goes down.
       await waitFor('the first document read', () => /form\(s\) read/.test(worker.stderr()));
+      const runId = () => serverRunId(redis.url);
+      const before = await runId();
       await redis.stop();
       await new Promise((r) => setTimeout(r, 1500));
       await redis.start();
+      expect(await runId()).not.toBe(before);
       const done = await worker.done;
       expect(done.code).toBe(0);
-      expect(done.stderr).toMatch(/queue connection: /);
+      expect(done.stderr).toMatch(/queue connection lost; reconnecting to redis:\/\/127\.0\.0\.1:\d+[^\n]*\n(.*\n)*.*queue connection: back/);
       expect((await queueCli(['collect', '--out', out], redis)).code).toBe(0);
       await expectEveryDocumentOnce(out, 3);
     } finally {
