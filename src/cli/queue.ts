@@ -192,7 +192,7 @@ export function registerQueueCommand(program: Command): void {
       const st = await stat(opts.out).catch(() => null);
       if (!st?.isDirectory()) throw configError(opts.out, 'results folder not found');
       const r = await collectResults(opts.out);
-      process.stderr.write(`${r.inputs} input outcome(s) folded in\n`);
+      process.stderr.write(`${r.inputs} input outcome(s) folded in${r.orphans > 0 ? `; ${r.orphans} temp file(s) left by stopped workers removed` : ''}\n`);
       process.stdout.write(summaryText(r.folder, opts.out));
       if (r.folder.documents.failed > 0) process.exitCode = 1;
     });

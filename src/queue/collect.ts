@@ -4,6 +4,7 @@ import { readResultsRecord } from '../results/document-record.js';
 import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
 import { writeIndex } from '../results/index-write.js';
 import { takeInputOutcomes } from '../results/input-outcome.js';
+import { removeOrphanTemps } from '../results/temp-files.js';
 import type { BatchSummary } from '../results/summary.js';
 import { writeReviewQueue } from '../review/queue-write.js';
 
@@ -12,7 +13,12 @@ export interface CollectReport {
   inputs: number;
   /** The whole folder after collecting (what summary.json holds). */
   folder: BatchSummary;
+  /** Temp files left by killed workers, removed. */
+  orphans: number;
 }
+
+/** A temp file this old has no live writer: a record or a crop is written and renamed within seconds. */
+export const STALE_TEMP_MS = 15 * 60_000;
 
 /**
  * Fold what queue workers wrote into the results folder's index and review queue, as a local batch does at its end:
@@ -32,5 +38,8 @@ export async function collectResults(outDir: string, warn: Warn = warnOnStderr):
     lines.filter((l) => l.ok && l.json).map((l) => readResultsRecord(path.join(outDir, l.json as string)).catch(() => null)),
   );
   await writeReviewQueue(outDir, records.filter((r): r is DocumentResult => r !== null));
-  return { inputs: taken.outcomes.length, folder };
+  // Temp files a killed worker left (they may hold crops of personal data). Workers on other machines may be writing
+  // now, so only old ones go: one temp file is written and renamed within seconds (common practice margin).
+  const orphans = await removeOrphanTemps(outDir, { staleAfterMs: STALE_TEMP_MS });
+  return { inputs: taken.outcomes.length, folder, orphans };
 }
