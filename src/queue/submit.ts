@@ -61,6 +61,8 @@ export async function submitBatch(queue: Queue, redis: Redis, queueName: string,
   const previous = index.lines.filter((l) => l.skipped === undefined);
   const inRun = new Set(files.flatMap((f) => [recordedPath(f), f]));
   const key = claimsKey(KEY_PREFIX, queueName, outDir);
+  // A folder with nothing in it starts with no claims: ids held for a deleted folder of the same path are let go.
+  if (index.empty) await redis.del(key);
   await seedClaims(redis, key, previous.filter((l) => !inRun.has(l.path)));
   const stems = documentIds(files);
   const schemas = options.schemas.map((s) => ({ path: s.path, sha256: s.sha256 }));
@@ -103,8 +105,9 @@ export async function submitBatch(queue: Queue, redis: Redis, queueName: string,
     attempts: options.attempts,
     // 5 s, 10 s, 20 s, ...: a worker that lost its shared folder or its Redis for a moment gets time to recover.
     backoff: { type: 'exponential', delay: 5000 },
-    // Finished jobs stay for `queue status` (pages/s) until the queue is cleaned; they hold paths and hashes only.
-    removeOnComplete: false,
+    // Finished jobs stay a week (the newest 100 000 at most) for `queue status` and so that submitting the same inputs
+    // again finds them; they hold paths and hashes only. Set-aside jobs stay until retried.
+    removeOnComplete: { age: 7 * 24 * 3600, count: 100_000 },
     removeOnFail: false,
   };
   // addBulk is one MULTI per chunk; 500 keeps each under a few hundred kilobytes (common practice for pipelines).
