@@ -19,7 +19,7 @@ import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { Queue, Worker, type Job } from 'bullmq';
 import { Redis } from 'ioredis';
-import { KEY_PREFIX } from '../src/queue/connect.js';
+import { KEY_PREFIX } from '../src/queue/names.js';
 import { JobOutcome, JobPayload } from '../src/queue/payload.js';
 import { claimId, claimsKey } from '../src/queue/redis-claims.js';
 import { pagesPerSecond } from '../src/queue/status.js';

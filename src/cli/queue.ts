@@ -6,12 +6,11 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { collectResults } from '../queue/collect.js';
-import { checkQueueName, connectRedis, DEFAULT_QUEUE, masked, openQueue } from '../queue/connect.js';
+import { checkQueueName, DEFAULT_QUEUE } from '../queue/names.js';
 import { parseRedisUrl, mask, REDIS_URL_ENV, type RedisTarget } from '../queue/redis-url.js';
 import { WorkerResources } from '../queue/resources.js';
 import { queueStatus, retrySetAside } from '../queue/status.js';
 import { submitBatch } from '../queue/submit.js';
-import { runWorker } from '../queue/worker.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { checkSchemasAgainstDetector, collect, loadSchemasChecked, readingOptions, summaryText } from './extract.js';
 
@@ -38,6 +37,9 @@ function withRedis(cmd: Command): Command {
 function target(opts: RedisCliOptions): { target: RedisTarget; name: string } {
   return { target: parseRedisUrl(opts.redis, opts.redisCa), name: checkQueueName(opts.queue) };
 }
+
+/** The Redis client libraries load only when a queue command runs, so every other command starts as fast as before. */
+const connect = () => import('../queue/connect.js');
 
 /** Log lines of a worker: time, pid and the event (paths and counts, never a field value). */
 function logLine(line: string): void {
@@ -73,9 +75,9 @@ export function registerQueueCommand(program: Command): void {
       await detector.close();
     }
     const digitModel = opts.digitReader ? { path: path.resolve(opts.digitModel), sha256: await sha256Of(opts.digitModel).catch(() => { throw configError(opts.digitModel, 'digit model file not found or unreadable'); }) } : null;
-    await masked(t, async () => {
-      const redis = await connectRedis(t, 'command');
-      const q = await openQueue(t, name);
+    await (await connect()).masked(t, async () => {
+      const redis = await (await connect()).connectRedis(t, 'command');
+      const q = await (await connect()).openQueue(t, name);
       try {
         const r = await submitBatch(q, redis, name, {
           inputs,
@@ -119,9 +121,10 @@ export function registerQueueCommand(program: Command): void {
     const threads = opts.threads === undefined ? undefined : wholeNumber('--threads', opts.threads, 1);
     const { target: t, name } = target(opts);
     const resources = new WorkerResources({ schemas: opts.schema, models: opts.model, digitModels: opts.digitModel, threads });
-    await masked(t, async () => {
-      const redis = await connectRedis(t, 'worker');
+    await (await connect()).masked(t, async () => {
+      const redis = await (await connect()).connectRedis(t, 'worker');
       try {
+        const { runWorker } = await import('../queue/worker.js');
         const r = await runWorker({ target: t, queueName: name, concurrency, lockSeconds, untilEmpty: opts.untilEmpty ?? false, log: logLine }, redis, resources);
         logLine(`stopped: ${r.completed} job(s) done, ${r.failed} set aside`);
       } finally {
@@ -141,8 +144,8 @@ export function registerQueueCommand(program: Command): void {
   ).action(async (opts: RedisCliOptions & { list: string; json?: boolean }) => {
     const list = wholeNumber('--list', opts.list, 0);
     const { target: t, name } = target(opts);
-    await masked(t, async () => {
-      const q = await openQueue(t, name);
+    await (await connect()).masked(t, async () => {
+      const q = await (await connect()).openQueue(t, name);
       try {
         const s = await queueStatus(q, list);
         for (const j of s.setAsideJobs) j.error = mask(t, j.error);
@@ -167,8 +170,8 @@ export function registerQueueCommand(program: Command): void {
       .argument('[inputs...]', 'only these inputs (paths as submitted); default: every set-aside job'),
   ).action(async (inputs: string[], opts: RedisCliOptions) => {
     const { target: t, name } = target(opts);
-    await masked(t, async () => {
-      const q = await openQueue(t, name);
+    await (await connect()).masked(t, async () => {
+      const q = await (await connect()).openQueue(t, name);
       try {
         const only = inputs.length > 0 ? new Set(inputs.map((i) => recordedPath(i))) : null;
         const back = await retrySetAside(q, only);

@@ -10,7 +10,7 @@ import { writeIndex } from '../results/index-write.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { skippedLine } from '../results/results-line.js';
 import type { LoadedSchema } from '../schema/load.js';
-import { KEY_PREFIX } from './connect.js';
+import { KEY_PREFIX } from './names.js';
 import type { HashedFile, JobPayload } from './payload.js';
 import { claimsKey, seedClaims } from './redis-claims.js';
 

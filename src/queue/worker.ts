@@ -5,7 +5,7 @@ import { sha256Of } from '../batch/run-batch.js';
 import { oneLine } from '../errors.js';
 import { writeInputOutcome } from '../results/input-outcome.js';
 import { failedLine } from '../results/results-line.js';
-import { KEY_PREFIX } from './connect.js';
+import { KEY_PREFIX } from './names.js';
 import { JobPayload, type JobOutcome } from './payload.js';
 import { claimId } from './redis-claims.js';
 import { connectionOptions, mask, type RedisTarget } from './redis-url.js';
