@@ -1,10 +1,13 @@
+import { mkdtemp, rm } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
 import { Redis } from 'ioredis';
 import { describe, expect, it } from 'vitest';
 import { mask, parseRedisUrl } from '../../src/queue/redis-url.js';
 import { claimId, claimsKey } from '../../src/queue/redis-claims.js';
 import { runCli } from '../cli/run-cli.js';
-import { skipUnlessPresent } from '../support/requirements.js';
-import { missingRedisServer, startRedis } from './redis-server.js';
+import { missingProgram, skipUnlessPresent } from '../support/requirements.js';
+import { makeTestTls, missingRedisServer, startRedis, type TestTls } from './redis-server.js';
 
 const missing = missingRedisServer();
 
@@ -64,6 +67,31 @@ describe('id claims in Redis', () => {
       expect(run.stdout + run.stderr).not.toContain('wrong-one-93');
     } finally {
       await server.dispose();
+    }
+  });
+});
+
+describe('Redis over TLS', () => {
+  it('rediss:// with --redis-ca reaches a TLS-only server; without the CA the certificate is refused in one line', async (ctx) => {
+    skipUnlessPresent(ctx, missing ?? missingProgram('openssl'));
+    const dir = await mkdtemp(path.join(os.tmpdir(), 'fg-redis-tls-'));
+    const tls = makeTestTls(dir) as TestTls;
+    const server = await startRedis({ tls, password: 'tls-pass-58' });
+    try {
+      expect(server.url).toMatch(/^rediss:/);
+      const ok = await runCli(['queue', 'status', '--redis', server.url, '--redis-ca', tls.ca]);
+      expect(ok.stderr).toBe('');
+      expect(ok.code).toBe(0);
+      expect(ok.stdout).toMatch(/^queue "formglean" at rediss:\/\/:\*\*\*@127\.0\.0\.1:\d+: 0 waiting/);
+      // Without `ca`, Node checks the server's chain against its bundled CA list only (Node.js docs, tls.connect options.ca),
+      // so a certificate a private CA signed is refused.
+      const refused = await runCli(['queue', 'status', '--redis', server.url]);
+      expect(refused.code).toBe(2);
+      expect(refused.stderr).toMatch(/^formglean: cannot use Redis at rediss:\/\/:\*\*\*@127\.0\.0\.1:\d+: [^\n]*certificate[^\n]*\n$/);
+      for (const r of [ok, refused]) expect(r.stdout + r.stderr).not.toContain('tls-pass-58');
+    } finally {
+      await server.dispose();
+      await rm(dir, { recursive: true, force: true });
     }
   });
 });
