@@ -82,6 +82,8 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
   const { target, log } = options;
   let completed = 0;
   let failed = 0;
+  // Set-aside records still being written: the worker does not return before they are on disk.
+  const pending = new Set<Promise<void>>();
   const worker = new Worker(options.queueName, (job: Job) => processJob(job, redis, resources), {
     connection: connectionOptions(target, 'worker'),
     prefix: KEY_PREFIX,
@@ -102,7 +104,7 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
     if (!job) return log(`a job failed: ${message}`);
     const p = JobPayload.safeParse(job.data);
     const name = p.success ? p.data.recorded : String(job.id);
-    void job
+    const recording = job
       .getState()
       .then(async (state) => {
         if (state !== 'failed') return log(`${name}: attempt ${job.attemptsMade} failed, will be tried again: ${message}`);
@@ -110,7 +112,9 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
         await setAside(job, redis, message);
         log(`${name}: set aside after ${job.attemptsMade} attempt(s): ${message}`);
       })
-      .catch((e) => log(`${name}: failed (${message}); could not record it: ${mask(target, oneLine(e))}`));
+      .catch((e) => log(`${name}: failed (${message}); could not record it: ${mask(target, oneLine(e))}`))
+      .finally(() => pending.delete(recording));
+    pending.add(recording);
   });
   // Redis lost for a while: BullMQ reconnects by itself; say so once per outage kind, masked.
   let lastError = '';
@@ -164,6 +168,7 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
   } else {
     await new Promise<void>((resolve) => worker.on('closed', () => resolve()));
   }
+  await Promise.all(pending);
   process.off('SIGINT', onSignal);
   process.off('SIGTERM', onSignal);
   return { completed, failed };
