@@ -1,4 +1,4 @@
-import type { Job, Queue } from 'bullmq';
+import type { Job, JobType, Queue } from 'bullmq';
 import { JobOutcome, JobPayload } from './payload.js';
 
 export interface SetAside {
@@ -50,11 +50,12 @@ export function pagesPerSecond(jobs: readonly Job[]): number | null {
 }
 
 export async function queueStatus(queue: Queue, listSetAside: number): Promise<QueueStatus> {
-  const c = await queue.getJobCounts('waiting', 'active', 'delayed', 'prioritized', 'completed', 'failed');
+  // 'paused': the waiting jobs of a paused queue (a list of their own; BullMQ's counter knows it, its types do not).
+  const c = await queue.getJobCounts('waiting', 'paused' as JobType, 'active', 'delayed', 'prioritized', 'completed', 'failed');
   const recent = (await queue.getJobs(['completed'], 0, RATE_WINDOW - 1)) as Job[];
   const failed = listSetAside > 0 ? ((await queue.getJobs(['failed'], 0, listSetAside - 1)) as Job[]) : [];
   return {
-    waiting: (c.waiting ?? 0) + (c.prioritized ?? 0),
+    waiting: (c.waiting ?? 0) + (c.paused ?? 0) + (c.prioritized ?? 0),
     active: c.active ?? 0,
     delayed: c.delayed ?? 0,
     done: c.completed ?? 0,

@@ -1,4 +1,4 @@
-import { Queue, UnrecoverableError, Worker, type Job } from 'bullmq';
+import { Queue, UnrecoverableError, Worker, type Job, type JobType } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { readInput } from '../batch/read-input.js';
 import { sha256Of } from '../batch/run-batch.js';
@@ -33,6 +33,12 @@ export interface WorkOptions {
  * Common practice for poison messages; BullMQ's default is 1.
  */
 const MAX_STALLS = 2;
+
+/**
+ * Job states that still have work to do. A paused queue keeps its waiting jobs in a list of its own, which BullMQ's
+ * Lua counter reads as 'paused' though its TypeScript list of job types leaves it out.
+ */
+const UNFINISHED = ['waiting', 'paused' as JobType, 'active', 'delayed', 'prioritized', 'waiting-children'] as JobType[];
 
 function payloadOf(job: Job): JobPayload {
   const parsed = JobPayload.safeParse(job.data);
@@ -158,7 +164,7 @@ export async function runWorker(options: WorkOptions, redis: Redis, resources: W
       await new Promise((r) => setTimeout(r, 1000));
       if (worker.closing) break;
       const counts = await queue
-        .getJobCounts('waiting', 'active', 'delayed', 'prioritized', 'waiting-children')
+        .getJobCounts(...UNFINISHED)
         .then((c) => Object.values(c))
         .catch(() => [1]);
       if (counts.every((n) => n === 0)) break;

@@ -39,8 +39,14 @@ function queueCli(args: string[], redis: TestRedis): Promise<CliRun> {
   return runCli(['queue', ...args], { env: { FORMGLEAN_REDIS_URL: redis.url } });
 }
 
+/**
+ * A worker that stops when the queue is empty. The job lock must outlast the longest stretch a page holds the event
+ * loop (the lock is renewed from a timer): on two cores shared with other test files that measured over 5 s, and a
+ * 5 s lock then set jobs aside as stalled while they were being read. 30 s here; the kill test takes 15 s to be
+ * quicker and asserts nothing a late renewal could break.
+ */
 function startWorker(redis: TestRedis, extra: string[] = []): StartedCli {
-  return startCli(['queue', 'work', '--until-empty', '--lock-seconds', '5', ...extra], { env: { FORMGLEAN_REDIS_URL: redis.url } });
+  return startCli(['queue', 'work', '--until-empty', '--lock-seconds', '30', ...extra], { env: { FORMGLEAN_REDIS_URL: redis.url } });
 }
 
 async function resultsLines(out: string): Promise<{ document: string; ok: boolean; error?: string; path: string }[]> {
@@ -116,7 +122,13 @@ describe('queue: workers on one Redis', () => {
       const again = await queueCli(['submit', scans, '--schema', SCHEMA, '--out', out], redis);
       expect(again.stdout).toMatch(/^0 job\(s\) queued .*; 4 input\(s\) already queued/);
 
+      // Held back until both workers are up, so that each takes a job at once however slowly either process starts.
+      const queue = new Queue('formglean', { connection: { url: redis.url }, prefix: 'formglean' });
+      await queue.pause();
       const workers = [startWorker(redis), startWorker(redis)];
+      await waitFor('both workers serving', () => workers.every((w) => /serving queue/.test(w.stderr())));
+      await queue.resume();
+      await queue.close();
       const done = await Promise.all(workers.map((w) => w.done));
       expect(done.map((d) => d.code)).toEqual([0, 0]);
       // Both took part: each logged at least one input read.
@@ -156,7 +168,7 @@ describe('queue: workers on one Redis', () => {
       const scans = await inputs('kill', 2);
       const out = path.join(work, 'kill', 'out');
       expect((await queueCli(['submit', scans, '--schema', SCHEMA, '--out', out], redis)).code).toBe(0);
-      const doomed = startWorker(redis);
+      const doomed = startWorker(redis, ['--lock-seconds', '15']);
       await waitFor('a job in hand', async () => (await queue.getActiveCount()) === 1);
       // Killed a second into the document (one takes several seconds here), before its record is written.
       await new Promise((r) => setTimeout(r, 1000));
@@ -165,7 +177,7 @@ describe('queue: workers on one Redis', () => {
       expect(killed.signal).toBe('SIGKILL');
       expect(killed.stderr).not.toMatch(/form\(s\) read/);
 
-      const rescuer = startWorker(redis);
+      const rescuer = startWorker(redis, ['--lock-seconds', '15']);
       const done = await rescuer.done;
       expect(done.code).toBe(0);
       expect((done.stderr.match(/form\(s\) read/g) ?? []).length).toBe(2);
@@ -184,7 +196,7 @@ describe('queue: workers on one Redis', () => {
       const scans = await inputs('restart', 3);
       const out = path.join(work, 'restart', 'out');
       expect((await queueCli(['submit', scans, '--schema', SCHEMA, '--out', out], redis)).code).toBe(0);
-      const worker = startWorker(redis, ['--lock-seconds', '20']);
+      const worker = startWorker(redis);
       // The second document is in hand when the server goes down.
       await waitFor('the first document read', () => /form\(s\) read/.test(worker.stderr()));
       const runId = () => serverRunId(redis.url);
