@@ -14,7 +14,7 @@ import type { LoadedSchema } from '../schema/load.js';
 import { carryReviewedFields } from './carry-review.js';
 
 /** What reading any input needs: the same for every input of a run, and for every worker that serves it. */
-export interface ReadingSetup extends Omit<ExtractOptions, 'schema' | 'documentId' | 'limits'> {
+export interface ReadingSetup extends Omit<ExtractOptions, 'schema' | 'documentId' | 'recordedAs' | 'limits'> {
   schemas: readonly LoadedSchema[];
   detector: Detector;
   /** The results folder the records and review crops are written to. */
@@ -74,7 +74,7 @@ export async function readInput(job: InputJob, setup: ReadingSetup, claim: Claim
   const stages = emptyStageTimes();
   try {
     const { schemas, outDir, ...extract } = setup;
-    const forms = extractForms(job.file, { ...extract, schema: schemas, documentId: job.stem });
+    const forms = extractForms(job.file, { ...extract, schema: schemas, documentId: job.stem, recordedAs: job.recorded });
     const earlier = await earlierRecords(outDir, job.earlierJson);
     for await (const { result: read, pages, stages: formStages } of forms) {
       addStageTimes(stages, formStages);

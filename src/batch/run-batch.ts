@@ -98,7 +98,7 @@ export interface BatchReport {
   run: RunRecord;
 }
 
-async function sha256Of(file: string): Promise<string> {
+export async function sha256Of(file: string): Promise<string> {
   return createHash('sha256').update(await readFile(file)).digest('hex');
 }
 
@@ -128,7 +128,7 @@ async function reusable(outDir: string, own: readonly ResultsLine[], file: strin
  * then, the file alone now): ids derive from the path relative to the run's inputs, and a new id would leave the old
  * record, with its review answers, unlisted. A stack's forms share the stem before ".pN".
  */
-function previousStem(own: readonly ResultsLine[]): string | undefined {
+export function previousStem(own: readonly ResultsLine[]): string | undefined {
   const ids = own.map((l) => l.requestedId ?? l.document).filter((id) => id !== '');
   if (ids.length === 1) return ids[0];
   const stems = new Set(ids.map((id) => id.replace(/\.p\d+$/, '')));
@@ -139,7 +139,7 @@ function previousStem(own: readonly ResultsLine[]): string | undefined {
  * Everything that can stop the run as a configuration error is checked before the results folder is touched: the
  * inputs exist, every schema's blank reference images decode, the folder can be created and written.
  */
-async function checkBeforeWriting(options: BatchOptions): Promise<void> {
+export async function checkBeforeWriting(options: Pick<BatchOptions, 'schemas' | 'outDir'>): Promise<void> {
   for (const s of options.schemas) for (const [i] of s.schema.pages.entries()) await referencePageImage(s, i);
   try {
     await mkdir(options.outDir, { recursive: true });

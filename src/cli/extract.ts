@@ -10,6 +10,9 @@ import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
 import { checkReferenceImages } from '../schema/blank-images.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchemas } from '../schema/load-many.js';
+import type { LoadedSchema } from '../schema/load.js';
+import type { Detector } from '../detect/types.js';
+import type { BatchSummary } from '../results/summary.js';
 import { BatchProgress, type ProgressMode } from './progress.js';
 
 interface ExtractCliOptions {
@@ -73,8 +76,38 @@ function stopOnSignals(progress: () => BatchProgress | null): { signal: AbortSig
   };
 }
 
-function collect(value: string, previous: string[]): string[] {
+export function collect(value: string, previous: string[]): string[] {
   return [...previous, value];
+}
+
+/** A required --schema option, loaded, each schema's blank reference images found: the checks before any reading. */
+export async function loadSchemasChecked(paths: readonly string[], command: string): Promise<LoadedSchema[]> {
+  if (paths.length === 0) throw configError(undefined, `${command}: --schema <file> is required (a schema file or a folder of them)`);
+  const schemas = await loadSchemas(paths);
+  for (const s of schemas) {
+    const missing = await checkReferenceImages(s);
+    if (missing.length > 0) throw configError(s.path, missing[0]);
+  }
+  return schemas;
+}
+
+/** Every field class a schema names is one the detector knows. */
+export function checkSchemasAgainstDetector(schemas: readonly LoadedSchema[], detector: Detector): void {
+  for (const s of schemas) {
+    const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
+    if (problems.length > 0) throw configError(s.path, problems[0]);
+  }
+}
+
+/** The one-line summary of a batch that extract and queue collect print; `speed` adds this run's pages/s. */
+export function summaryText(s: BatchSummary, out: string, speed?: { pagesPerSecond: number | null; workers: number }): string {
+  const rate = speed ? `, ${speed.pagesPerSecond ?? '-'} pages/s with ${speed.workers} worker(s)` : '';
+  return (
+    `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
+    `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
+    `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
+    `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page${rate}. Results in ${printable(out)}\n`
+  );
 }
 
 /** Share as a whole percentage, or '-' when there is nothing to count. */
@@ -82,20 +115,23 @@ function percent(share: number | null): string {
   return share === null ? '-' : `${Math.round(share * 100)} %`;
 }
 
-export function registerExtractCommand(program: Command): void {
-  program
-    .command('extract')
-    .description('Read scanned forms into checked JSON records, a review queue and a summary')
+/** What every command that reads forms takes: the inputs, the schemas and model, and how pages are read. */
+export function readingOptions(cmd: Command): Command {
+  return cmd
     .argument('<inputs...>', 'scans (png, jpeg, tiff, webp, pdf), folders or glob patterns')
     .option('--schema <file>', 'form schema (YAML or JSON), or a folder of them; repeat for several layouts', collect, [])
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .requiredOption('--out <dir>', 'results folder')
-    .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--no-deskew', 'do not correct small page skew')
     .option('--no-orientation', 'do not look for pages turned by 90, 180 or 270 degrees')
     .option('--dropout', 'read text with the printed form subtracted (needs the schema\'s blank image; 1-2 s more per page)')
     .option('--digit-model <file>', 'ONNX digit reader for digit combs (read beside Tesseract, cell by cell)', DEFAULT_DIGIT_MODEL_PATH)
-    .option('--no-digit-reader', 'read digit combs with Tesseract alone')
+    .option('--no-digit-reader', 'read digit combs with Tesseract alone');
+}
+
+export function registerExtractCommand(program: Command): void {
+  readingOptions(program.command('extract').description('Read scanned forms into checked JSON records, a review queue and a summary'))
+    .option('--resume', 'keep results of documents unchanged since the last run')
     .option('--workers <n>', `inputs read at once, each by a worker thread with its own detector and OCR worker (default: one per core as memory allows, ${defaultWorkers()} here)`)
     .option('--threads <n>', 'onnxruntime intra-op threads of each detector session (default: the cores shared out among the workers)')
     .option('--quiet', 'print only the summary')
@@ -104,19 +140,11 @@ export function registerExtractCommand(program: Command): void {
       const threads = wholeNumber('--threads', opts.threads);
       const workers = wholeNumber('--workers', opts.workers) ?? defaultWorkers();
       if (opts.quiet && opts.jsonLog) throw configError(undefined, 'extract: --quiet and --json-log cannot be given together');
-      if (opts.schema.length === 0) throw configError(undefined, 'extract: --schema <file> is required (a schema file or a folder of them)');
       const outStat = await stat(opts.out).catch(() => null);
+      const schemas = await loadSchemasChecked(opts.schema, 'extract');
       if (outStat && !outStat.isDirectory()) throw configError(opts.out, 'the --out path exists and is not a folder');
-      const schemas = await loadSchemas(opts.schema);
-      for (const s of schemas) {
-        const missing = await checkReferenceImages(s);
-        if (missing.length > 0) throw configError(s.path, missing[0]);
-      }
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
-      for (const s of schemas) {
-        const problems = checkSchemaAgainstClasses(s.schema, detector.classNames);
-        if (problems.length > 0) throw configError(s.path, problems[0]);
-      }
+      checkSchemasAgainstDetector(schemas, detector);
       const digitReader = opts.digitReader ? await DigitReader.open(opts.digitModel) : undefined;
       const mode: ProgressMode = opts.quiet ? 'quiet' : opts.jsonLog ? 'json' : process.stderr.isTTY ? 'tty' : 'lines';
       let progress = null as BatchProgress | null;
@@ -150,13 +178,7 @@ export function registerExtractCommand(program: Command): void {
         } else if (signal) {
           process.stderr.write(`${signal} came when every input had already started: the run is complete\n`);
         }
-        process.stdout.write(
-          `${s.documents.processed} of ${s.documents.total} documents processed, ${s.fields.total} fields: ` +
-            `${s.fields.byStatus.accepted} accepted, ${s.fields.byStatus.review} review, ${s.fields.byStatus.invalid} invalid, ` +
-            `${s.fields.byStatus.missing} missing; straight through: ${percent(s.straightThroughRate)} of fields, ` +
-            `${percent(s.documentStraightThroughRate)} of documents; ${s.secondsPerPage ?? '-'} s/page, ` +
-            `${r.pagesPerSecond ?? '-'} pages/s with ${r.workers} worker(s). Results in ${printable(opts.out)}\n`,
-        );
+        process.stdout.write(summaryText(s, opts.out, r));
         // Inputs found in folders but not tried are listed in results.jsonl and summary.json with their reasons.
         const skipped = report.lines.filter((l) => l.skipped !== undefined);
         if (skipped.length > 0) {

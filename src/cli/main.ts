@@ -12,6 +12,7 @@ import { registerSamplesCommand } from './samples.js';
 import { registerReviewCommand } from './review.js';
 import { registerExportCommand } from './export.js';
 import { registerOverlayCommand } from './overlay.js';
+import { registerQueueCommand } from './queue.js';
 
 const program = new Command();
 program
@@ -33,6 +34,7 @@ registerSamplesCommand(program);
 registerReviewCommand(program);
 registerExportCommand(program);
 registerOverlayCommand(program);
+registerQueueCommand(program);
 
 async function main(): Promise<void> {
   try {

@@ -39,6 +39,11 @@ export interface ExtractOptions {
   detector: Detector;
   /** Id used for the result's file name; default: the file name without extension. */
   documentId?: string;
+  /**
+   * The input's path as the record writes it; default: recordedPath(input) in this process's working folder. A queue
+   * worker runs elsewhere and passes the path the submitting machine recorded, so every record of a batch agrees.
+   */
+  recordedAs?: string;
   /** Correct small skew (default true). */
   deskew?: boolean;
   /** Detect and correct quarter-turn rotation (default true). */
@@ -125,7 +130,7 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       const result = await extractForm(formPages, choice, schemas.length, {
         ...options,
         id,
-        source: typeof input === 'string' ? recordedPath(input) : '<buffer>',
+        source: options.recordedAs ?? (typeof input === 'string' ? recordedPath(input) : '<buffer>'),
         sha256: doc.sha256,
         clock,
       });

@@ -17,3 +17,9 @@ export function documentJsonName(documentId: string): string {
 export function isReservedId(id: string): boolean {
   return RESERVED_IDS.has(id.toLowerCase());
 }
+
+/**
+ * Per-input outcome files that queue workers write (src/results/input-outcome.ts), one per input, merged into the
+ * index by `queue collect`.
+ */
+export const OUTCOMES_DIR = 'outcomes';

@@ -38,9 +38,10 @@ export interface StartedCli {
 }
 
 /** Start the real command line without waiting for it (node --import tsx: the pid is the one that writes). */
-export function startCli(args: readonly string[], options: { cwd?: string } = {}): StartedCli {
+export function startCli(args: readonly string[], options: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): StartedCli {
   const child = spawn(process.execPath, ['--import', TSX_LOADER, path.join(REPO, 'src/cli/main.ts'), ...args], {
     cwd: options.cwd ?? REPO,
+    env: { ...process.env, ...options.env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let stdout = '';

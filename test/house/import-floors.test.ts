@@ -21,6 +21,7 @@ const FLOORS: readonly string[][] = [
   ['pipeline'],
   ['review'],
   ['batch', 'eval', 'draft'],
+  ['queue'],
   ['synth'],
   ['cli'],
   ['api.ts'],
