@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { getFieldType } from '../../src/fields/registry.js';
 import type { Box } from '../../src/image/geometry.js';
-import { grayFromImage } from '../../src/image/raster.js';
+import { grayFromImage, type GrayImage } from '../../src/image/raster.js';
 import type { LocatedField } from '../../src/locate/locate-fields.js';
 import { readLocatedField } from '../../src/pipeline/read-field.js';
 import { FieldSpec } from '../../src/schema/definition.js';
@@ -31,21 +31,28 @@ export interface StripField {
   options?: Record<string, unknown>;
 }
 
-export async function readStripFields(strip: Strip, fields: readonly StripField[]): Promise<Record<string, { value: unknown; reasons: string[] }>> {
+/** The strip's page and blank images, and a field's box on the page and region on the blank in strip pixels. */
+export async function stripField(strip: Strip, f: StripField): Promise<{ page: GrayImage; reference: GrayImage; box: Box; region: Box }> {
   const dir = path.join(REPO_ROOT, 'test/fixtures/real-forms');
-  const page = await grayFromImage(path.join(dir, strip.page));
-  const reference = await grayFromImage(path.join(dir, strip.blank));
   const shift = (b: Box): Box => ({ x: b.x - strip.origin.x, y: b.y - strip.origin.y, w: b.w, h: b.h });
+  const [x, y, w, h] = f.region;
+  return {
+    page: await grayFromImage(path.join(dir, strip.page)),
+    reference: await grayFromImage(path.join(dir, strip.blank)),
+    box: shift({ x: f.box[0], y: f.box[1], w: f.box[2], h: f.box[3] }),
+    region: shift({ x, y, w, h }),
+  };
+}
+
+export async function readStripFields(strip: Strip, fields: readonly StripField[]): Promise<Record<string, { value: unknown; reasons: string[] }>> {
   const got: Record<string, { value: unknown; reasons: string[] }> = {};
   for (const f of fields) {
     const options = f.options ?? {};
     const field = FieldSpec.parse({ name: f.name, type: f.type, class: f.class ?? 'comb_field', page: 0, region: f.region, options });
-    const [x, y, w, h] = f.region;
-    const region = { x, y, w, h };
-    const onPage = shift({ x: f.box[0], y: f.box[1], w: f.box[2], h: f.box[3] });
+    const { page, reference, box, region } = await stripField(strip, f);
     const located: LocatedField = {
       field,
-      parts: [{ key: f.name, box: onPage, source: 'region', detectionScore: null, expected: onPage, region: shift(region), reasons: [] }],
+      parts: [{ key: f.name, box, source: 'region', detectionScore: null, expected: box, region, reasons: [] }],
     };
     const type = getFieldType(f.type);
     const out = await readLocatedField(located, type, type.options.parse(options), {

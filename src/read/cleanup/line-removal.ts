@@ -97,9 +97,14 @@ function repair(img: GrayImage, mark: Uint8Array, horizontal: boolean): void {
   }
 }
 
+/** The shortest horizontal run removeRuledLines takes for a rule by default in a crop this wide. */
+export function horizontalRuleLength(width: number): number {
+  return Math.max(20, Math.round(width * 0.4));
+}
+
 /** Remove long horizontal and vertical ruled lines (cell borders, underlines, comb separators) from a binary crop. */
 export function removeRuledLines(img: GrayImage, options: LineRemovalOptions = {}): LineRemoval {
-  const minH = options.minHorizontal ?? Math.max(20, Math.round(img.width * 0.4));
+  const minH = options.minHorizontal ?? horizontalRuleLength(img.width);
   const minV = options.minVertical ?? Math.max(12, Math.round(img.height * 0.6));
   const horizontal = markRuns(img, true, minH);
   const anchored = options.minAnchoredVertical;

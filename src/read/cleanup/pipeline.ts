@@ -4,7 +4,7 @@ import { createGray } from '../../image/raster.js';
 import { binarizeOtsu } from '../../image/otsu.js';
 import { binarizeSauvola } from '../../image/sauvola.js';
 import { estimateCropSkew, rotateCrop, uprightBox } from './deskew.js';
-import { removeDashedRules, removeRuledLines } from './line-removal.js';
+import { horizontalRuleLength, removeDashedRules, removeRuledLines } from './line-removal.js';
 import { filterComponents, labelComponents } from '../../image/components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
@@ -89,7 +89,7 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
     case 'lines': {
       const b = ensureBinary(s);
       const removed = removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image);
-      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed, b.inner) : removed };
+      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed, horizontalRuleLength(b.image.width)) : removed };
     }
     case 'components': {
       const b = ensureBinary(s);
@@ -133,32 +133,29 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
 
 /**
  * Rule removal limited to the blank's print: ink the removal took where the blank has no print is a pen stroke (the
- * stem of an l, t or k, a descender, an underline the writer drew) and goes back. In tight ruled cells those strokes
+ * stem of an l, t or k, a descender) and goes back. In tight ruled cells those strokes
  * are as tall as the cell and were erased as rules ("Stillwater" read "S-i.waer").
  *
- * Except a frame drawn around the field that the blank lacks: the border and comb dividers a PDF viewer draws for a
- * filled widget, a box the writer ruled. Its removed pixels form one connected piece as wide as most of the field
- * (FRAME_SPAN); no pen stroke taken for a rule is that long, since a stroke across the whole field would be a rule
- * itself. Restoring it read "D" boxed as "0" and empty boxed combs as letters (va-21-0966, typed fill).
+ * Except pieces as wide as a ruled line (the length the lines step itself takes a horizontal run for a rule at): a frame
+ * drawn around the field that the blank lacks (the border and comb dividers a PDF viewer draws for a filled widget, a
+ * box the writer ruled), or a printed rule that lies further from its place on the blank than the tolerance. Stems
+ * and descenders are narrow; a pen stroke that long is an underline or a strike-through, not part of the value.
+ * Restoring them read "D" boxed as "0", empty boxed combs as letters (va-21-0966, typed fill) and added "ee ———" to
+ * small typed text sitting on its field's rule (nara-sf180).
  */
-function keepUnprinted(before: GrayImage, after: GrayImage, printed: GrayImage, inner: Box): GrayImage {
+function keepUnprinted(before: GrayImage, after: GrayImage, printed: GrayImage, ruleLength: number): GrayImage {
   const taken = createGray(after.width, after.height, PAPER);
   for (let i = 0; i < taken.data.length; i++) {
     if (before.data[i] === INK && after.data[i] !== INK && printed.data[i] !== 0) taken.data[i] = INK;
   }
   const { labels, components } = labelComponents(taken);
-  const frame = new Uint8Array(components.length + 1);
-  for (const c of components) if (c.box.w >= FRAME_SPAN * inner.w) frame[c.id] = 1;
+  const rule = new Uint8Array(components.length + 1);
+  for (const c of components) if (c.box.w >= ruleLength) rule[c.id] = 1;
   const data = Uint8Array.from(after.data);
-  for (let i = 0; i < data.length; i++) if (labels[i] !== 0 && !frame[labels[i]]) data[i] = INK;
+  for (let i = 0; i < data.length; i++) if (labels[i] !== 0 && !rule[labels[i]]) data[i] = INK;
   return { width: after.width, height: after.height, data };
 }
 
-/**
- * Share of the field box's width that a connected piece of removed, unprinted rule ink must span to stay removed as a
- * drawn frame. Common practice (a border spans the whole box; 0.8 leaves room for a box located a little wide).
- */
-const FRAME_SPAN = 0.8;
 
 /** A rotated 0/255 mask back to exactly 0 and 255 (rotation blends its edges). */
 function invertedThreshold(img: GrayImage): GrayImage {
