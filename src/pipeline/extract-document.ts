@@ -19,7 +19,7 @@ import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { documentError } from '../errors.js';
 import { recordedPath } from '../results/recorded-path.js';
-import { alignmentProblem, pageProblem } from './page-gate.js';
+import { alignmentProblem, boxOnPage, pageProblem } from './page-gate.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
@@ -179,6 +179,10 @@ async function extractForm(
     if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
     const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
     for (const lf of located) {
+      if (lf.parts.some((part) => part.box && !boxOnPage(part.box, normalized.image))) {
+        fields.push(unreadField(lf.field, 'review', 'off_page'));
+        continue;
+      }
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
       const outcome = await readLocatedField(lf, type, typeOptions, {

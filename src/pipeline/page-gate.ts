@@ -1,4 +1,5 @@
 import type { Alignment } from '../page/alignment.js';
+import type { Box } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 
 /**
@@ -54,4 +55,20 @@ export function alignmentProblem(alignment: Alignment): string | null {
   if (alignment.method === 'identity') return 'the form layout was not found on the page';
   if (alignment.score < MIN_ALIGNMENT_SCORE) return `the page fits its form layout poorly (score ${alignment.score.toFixed(2)} < ${MIN_ALIGNMENT_SCORE})`;
   return null;
+}
+
+/**
+ * How far a field box may reach past the page's edge and still be read whole, pixels: the 2 px misregistration that
+ * alignment leaves on real layouts (ADDED_INK_TOLERANCE in src/read/marks.ts, measured on the real W-4).
+ */
+const EDGE_TOLERANCE = 2;
+
+/**
+ * Does a field box lie on the page? A box reaching further outside would be read cut off (its value possibly
+ * accepted short) or not at all (a crop outside the page): such a field goes to review with reason off_page and the
+ * rest of the document is read.
+ */
+export function boxOnPage(box: Box, page: Pick<GrayImage, 'width' | 'height'>): boolean {
+  const t = EDGE_TOLERANCE;
+  return box.x >= -t && box.y >= -t && box.x + box.w <= page.width + t && box.y + box.h <= page.height + t;
 }
