@@ -219,7 +219,7 @@ async function extractForm(
     document: { id: options.id, path: options.source, sha256: options.sha256 },
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
-    ...(candidates > 1
+    ...(candidates > 1 || choice.status === 'unknown_layout'
       ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates } }
       : {}),
     createdAt: new Date().toISOString(),
