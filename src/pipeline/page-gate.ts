@@ -58,10 +58,13 @@ export function alignmentProblem(alignment: Alignment): string | null {
 }
 
 /**
- * How far a field box may reach past the page's edge and still be read whole, pixels: the 2 px misregistration that
- * alignment leaves on real layouts (ADDED_INK_TOLERANCE in src/read/marks.ts, measured on the real W-4).
+ * How much of a field box may lie past the page's edge and the field still be read: a quarter of its height (the
+ * written line sits in the middle of its box; a region drawn to the top edge of the sheet, FEC Form 99's filing
+ * stamp, lies a few pixels past it once the page is aligned, with nothing there) and a tenth of its width (about one
+ * character in ten of a full box; more, and the value may be read cut off). Common practice, not measured.
  */
-const EDGE_TOLERANCE = 2;
+const OFF_PAGE_HEIGHT = 0.25;
+const OFF_PAGE_WIDTH = 0.1;
 
 /**
  * Does a field box lie on the page? A box reaching further outside would be read cut off (its value possibly
@@ -69,6 +72,7 @@ const EDGE_TOLERANCE = 2;
  * rest of the document is read.
  */
 export function boxOnPage(box: Box, page: Pick<GrayImage, 'width' | 'height'>): boolean {
-  const t = EDGE_TOLERANCE;
-  return box.x >= -t && box.y >= -t && box.x + box.w <= page.width + t && box.y + box.h <= page.height + t;
+  const outX = Math.max(0, -box.x) + Math.max(0, box.x + box.w - page.width);
+  const outY = Math.max(0, -box.y) + Math.max(0, box.y + box.h - page.height);
+  return outX <= OFF_PAGE_WIDTH * box.w && outY <= OFF_PAGE_HEIGHT * box.h;
 }
