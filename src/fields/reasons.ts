@@ -46,6 +46,11 @@ export const REASONS = {
     meaning: 'The entry area was found neither by the detector nor at its place in the schema.',
     check: 'The context crop or the scan: type the value, or "really blank".',
   },
+  off_page: {
+    effect: 'review',
+    meaning: 'The entry area lies partly or wholly outside the scanned page (a page cut short, or a poor fit), so it was not read.',
+    check: 'The scan: whether the entry is on the page at all; type the value, or scan the page again whole.',
+  },
   not_read: {
     effect: 'review',
     meaning: 'The entry area was found but could not be read.',

@@ -11,6 +11,14 @@ import type { GrayImage } from '../image/raster.js';
  * means no layout fits (reason `unknown_layout`).
  */
 
+/**
+ * Lowest image-registration score of a page against its own layout's blank. Measured on bench/page-align.ts (201
+ * held-out heavy pages, three demo layouts): a page scores 0.774..0.98 (median 0.94) against its own blank, at most
+ * 0.455 (median 0) against another; 0.6 sits between with room both ways. The real-form bench's pages align to
+ * their blanks at 0.83 and up (bench/real-forms.ts, development half).
+ */
+export const LAYOUT_MIN_SCORE = 0.6;
+
 export interface LayoutCandidate {
   name: string;
   referenceSize: { width: number; height: number };
@@ -40,11 +48,7 @@ export interface LayoutMatch {
 
 export interface LayoutMatchOptions {
   detections?: readonly Detection[];
-  /**
-   * Lowest winning score (default 0.6). Measured on bench/page-align.ts (201 held-out heavy pages, three demo
-   * layouts): a page scores 0.774..0.98 (median 0.94) against its own blank, at most 0.455 (median 0) against
-   * another; 0.6 sits between with room both ways.
-   */
+  /** Lowest winning score (default LAYOUT_MIN_SCORE). */
   minScore?: number;
   /** Registration levels used for scoring (coarse is enough to tell layouts apart; default [150, 300]). */
   levels?: number[];
@@ -71,6 +75,6 @@ export function matchLayout(page: GrayImage, candidates: readonly LayoutCandidat
   const top = ranked[0];
   if (!top) return { best: null, score: 0, margin: 0, scores, reason: 'unknown_layout' };
   const margin = ranked.length > 1 ? top.score - ranked[1].score : 1;
-  if (top.score < (options.minScore ?? 0.6)) return { best: null, score: top.score, margin, scores, reason: 'unknown_layout' };
+  if (top.score < (options.minScore ?? LAYOUT_MIN_SCORE)) return { best: null, score: top.score, margin, scores, reason: 'unknown_layout' };
   return { best: top.name, score: top.score, margin, scores };
 }

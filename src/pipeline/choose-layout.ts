@@ -1,6 +1,6 @@
 import type { Detection } from '../detect/types.js';
 import type { Alignment } from '../page/alignment.js';
-import { matchLayout } from '../page/layout-match.js';
+import { LAYOUT_MIN_SCORE, matchLayout } from '../page/layout-match.js';
 import type { GrayImage } from '../image/raster.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { alignToSchemaPage, layoutRegions } from './align-page.js';
@@ -17,7 +17,8 @@ export interface LayoutChoice {
 }
 
 /**
- * Which schema is this page? With one schema, that one. With several, each layout's first page is scored against the
+ * Which schema is this page? With one schema, that one, unless the page registers to its blank worse than
+ * LAYOUT_MIN_SCORE (unknown_layout). With several, each layout's first page is scored against the
  * page by a coarse registration (src/page/layout-match.ts, which also holds the measured threshold); the best is
  * aligned in full. When none fits, the best is still used so that a person sees what was read, and every field goes
  * to review with reason unknown_layout.
@@ -31,7 +32,12 @@ export async function chooseLayout(
   if (schemas.length === 1) {
     const alignment = await alignToSchemaPage(schemas[0], 0, page, detections);
     const score = Math.round(alignment.score * 1000) / 1000;
-    return { schema: schemas[0], alignment, status: 'assigned', score, candidates: [{ schema: schemas[0].schema.form.name, score }] };
+    // A page registered to the blank worse than any page of its own layout is another form, one schema or several
+    // (a garden-plot page read with the marina schema had fields "accepted"). The threshold is an image
+    // correlation's: a fit by detections alone is judged by the page gate.
+    const byImage = alignment.method === 'image' || alignment.method === 'image+detections';
+    const status = byImage && alignment.score < LAYOUT_MIN_SCORE ? 'unknown_layout' : 'assigned';
+    return { schema: schemas[0], alignment, status, score, candidates: [{ schema: schemas[0].schema.form.name, score }] };
   }
   const candidates = await Promise.all(
     schemas.map(async (s) => ({

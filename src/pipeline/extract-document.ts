@@ -19,7 +19,7 @@ import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { documentError } from '../errors.js';
 import { recordedPath } from '../results/recorded-path.js';
-import { alignmentProblem, pageProblem } from './page-gate.js';
+import { alignmentProblem, boxOnPage, pageProblem } from './page-gate.js';
 import { alignmentRecord, alignToSchemaPage } from './align-page.js';
 import type { LayoutChoice } from './choose-layout.js';
 import { chooseLayout } from './choose-layout.js';
@@ -205,6 +205,10 @@ async function extractForm(
       return { located, reference, ocrPage };
     });
     for (const lf of located) {
+      if (lf.parts.some((part) => part.box && !boxOnPage(part.box, normalized.image))) {
+        fields.push(unreadField(lf.field, 'review', 'off_page'));
+        continue;
+      }
       const type = getFieldType(lf.field.type);
       const typeOptions = type.options.parse(lf.field.options ?? {});
       const outcome = await clock.time('read', () =>
@@ -246,7 +250,7 @@ async function extractForm(
     document: { id: options.id, path: options.source, sha256: options.sha256 },
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
-    ...(candidates > 1
+    ...(candidates > 1 || choice.status === 'unknown_layout'
       ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates } }
       : {}),
     createdAt: new Date().toISOString(),

@@ -1,4 +1,5 @@
 import type { Alignment } from '../page/alignment.js';
+import type { Box } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 
 /**
@@ -54,4 +55,24 @@ export function alignmentProblem(alignment: Alignment): string | null {
   if (alignment.method === 'identity') return 'the form layout was not found on the page';
   if (alignment.score < MIN_ALIGNMENT_SCORE) return `the page fits its form layout poorly (score ${alignment.score.toFixed(2)} < ${MIN_ALIGNMENT_SCORE})`;
   return null;
+}
+
+/**
+ * How much of a field box may lie past the page's edge and the field still be read: a quarter of its height (the
+ * written line sits in the middle of its box; a region drawn to the top edge of the sheet, FEC Form 99's filing
+ * stamp, lies a few pixels past it once the page is aligned, with nothing there) and a tenth of its width (about one
+ * character in ten of a full box; more, and the value may be read cut off). Common practice, not measured.
+ */
+const OFF_PAGE_HEIGHT = 0.25;
+const OFF_PAGE_WIDTH = 0.1;
+
+/**
+ * Does a field box lie on the page? A box reaching further outside would be read cut off (its value possibly
+ * accepted short) or not at all (a crop outside the page): such a field goes to review with reason off_page and the
+ * rest of the document is read.
+ */
+export function boxOnPage(box: Box, page: Pick<GrayImage, 'width' | 'height'>): boolean {
+  const outX = Math.max(0, -box.x) + Math.max(0, box.x + box.w - page.width);
+  const outY = Math.max(0, -box.y) + Math.max(0, box.y + box.h - page.height);
+  return outX <= OFF_PAGE_WIDTH * box.w && outY <= OFF_PAGE_HEIGHT * box.h;
 }

@@ -1,7 +1,7 @@
 import { formMask } from '../page/dropout.js';
 import type { Box } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
-import { thresholdAt, INK } from '../image/binary.js';
+import { thresholdAt, INK, PAPER } from '../image/binary.js';
 import { labelComponents } from '../image/components.js';
 import { estimateCropSkew, rotateCrop } from './cleanup/deskew.js';
 import { removeRuledLines } from './cleanup/line-removal.js';
@@ -309,7 +309,36 @@ export function measureAddedInk(
   tolerance = ADDED_INK_TOLERANCE,
   contrast = ADDED_INK_CONTRAST,
 ): MarkMeasure | null {
+  const added = addedInkMask(img, blank, tolerance, contrast);
+  if (!added) return null;
   const { width: w, height: h } = img;
+  const x0 = Math.max(0, Math.round(box.x));
+  const y0 = Math.max(0, Math.round(box.y));
+  const x1 = Math.min(w, Math.round(box.x + box.w));
+  const y1 = Math.min(h, Math.round(box.y + box.h));
+  const { area, ink } = countAddedInk(added, { x: x0, y: y0, w: x1 - x0, h: y1 - y0 });
+  if (area < MIN_PAPER_PIXELS) return null;
+  const inner = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+  return { fillRatio: ink / area, boxFound: true, box: inner, inner, shape: 'square' };
+}
+
+/** Ink added over the blank under a crop: `ink` is a binary image (INK where added), `print` 1 where the blank has
+ *  print (grown by the tolerance), which is neither paper nor added ink. */
+export interface AddedInk {
+  ink: GrayImage;
+  print: Uint8Array;
+}
+
+/**
+ * The pixels of a crop that are added ink over the blank (see measureAddedInk for the comparison), as a binary
+ * image, with the blank's print grown by `tolerance` set aside. Null when too few paper pixels are left to judge.
+ */
+export function addedInkMask(
+  img: GrayImage,
+  blank: GrayImage,
+  tolerance = ADDED_INK_TOLERANCE,
+  contrast = ADDED_INK_CONTRAST,
+): AddedInk | null {
   const print = formMask(blank, tolerance, BLANK_INK);
   const lightest = maxFilter(blank, tolerance);
   const paperPixels: number[] = [];
@@ -318,22 +347,24 @@ export function measureAddedInk(
   // The page's paper tone (scanners rarely give 255), from the crop with the print set aside.
   const paper = otsuSplit(Uint8Array.from(paperPixels)).lightMean;
   const gain = paper / 255;
-  const x0 = Math.max(0, Math.round(box.x));
-  const y0 = Math.max(0, Math.round(box.y));
-  const x1 = Math.min(w, Math.round(box.x + box.w));
-  const y1 = Math.min(h, Math.round(box.y + box.h));
+  const ink = new Uint8Array(img.data.length).fill(PAPER);
+  for (let i = 0; i < img.data.length; i++) if (!print[i] && lightest[i] * gain - img.data[i] >= contrast) ink[i] = INK;
+  return { ink: { width: img.width, height: img.height, data: ink }, print };
+}
+
+/** Paper pixels of the blank inside `box` (crop pixels, whole numbers) and how many of them hold added ink. */
+export function countAddedInk(added: AddedInk, box: Box): { area: number; ink: number } {
+  const { width: w, data } = added.ink;
   let area = 0;
   let ink = 0;
-  for (let y = y0; y < y1; y++)
-    for (let x = x0; x < x1; x++) {
+  for (let y = box.y; y < box.y + box.h; y++)
+    for (let x = box.x; x < box.x + box.w; x++) {
       const i = y * w + x;
-      if (print[i]) continue;
+      if (added.print[i]) continue;
       area++;
-      if (lightest[i] * gain - img.data[i] >= contrast) ink++;
+      if (data[i] === INK) ink++;
     }
-  if (area < MIN_PAPER_PIXELS) return null;
-  const inner = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-  return { fillRatio: ink / area, boxFound: true, box: inner, inner, shape: 'square' };
+  return { area, ink };
 }
 
 /** Brightest value within a (2r+1)-square around each pixel (separable: along rows, then along columns). */

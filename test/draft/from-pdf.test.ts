@@ -3,6 +3,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { draftFromPdf, type PdfSchemaDraft } from '../../src/draft/from-pdf/from-pdf.js';
 import { fieldKey } from '../../src/draft/from-pdf/naming.js';
+import { guessTextType } from '../../src/draft/from-pdf/guess-type.js';
 import { loadPdf, readPageWidgets } from '../../src/draft/from-pdf/widgets.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { checkSchemaConsistency } from '../../src/schema/consistency.js';
@@ -127,6 +128,17 @@ describe('schema from-pdf: names, types and refusals', () => {
     expect(byType('date')).toHaveLength(2); // "Executed on (Date mm/dd/yyyy)" for each debtor
     expect(byType('signature')).toHaveLength(2); // text widgets named "Debtor1.signature", "Debtor2.signature"
     expect(byType('choice_text')).toHaveLength(1); // the district dropdown
+  });
+
+  it('types a widget that holds one part of a phone number as text, a whole one as phone', () => {
+    // The widgets of USCIS Form I-589 (2025), page 1, as the PDF gives them (name, tooltip, /MaxLen): its area code
+    // and 7-digit number boxes. A phone field needs the whole number (10 digits in North America: NANP, from memory).
+    const widget = (fieldName: string, tooltip: string, maxLength?: number) => ({ fieldName, tooltip, kind: 'text' as const, rect: { x: 0, y: 0, w: 50, h: 14 }, maxLength });
+    const item8 = 'Part. A. 1. Information About You. 8. Residence in the U. S. (where you physically reside).';
+    expect(guessTextType(widget('form1[0].#subform[0].PtAILine8_AreaCode[0]', `${item8} Telephone Number. Enter 3-digit Area Code.`, 3)).type).toBe('text');
+    expect(guessTextType(widget('form1[0].#subform[0].PtAILine8_TelephoneNumber[0]', `${item8} Enter 7-digit Telephone Number.`, 8)).type).toBe('text');
+    expect(guessTextType(widget('form1[0].#subform[0].Telephone[0]', 'Daytime telephone number')).type).toBe('phone');
+    expect(guessTextType(widget('form1[0].#subform[0].Telephone[0]', 'Daytime telephone number', 14)).type).toBe('phone');
   });
 
   it('refuses a PDF without fillable fields with a one-line error naming the file', async () => {

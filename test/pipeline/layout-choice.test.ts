@@ -29,3 +29,19 @@ describe('several layouts in one batch', () => {
     expect(unknown.result.fields.every((f) => f.status !== 'accepted' && f.reasons.includes('unknown_layout'))).toBe(true);
   });
 });
+
+describe('a page of another form read with a single schema', () => {
+  it('is unknown_layout: no field of it is accepted', async () => {
+    const detector = await loadDetector(DEFAULT_MODEL_PATH);
+    // The clinic's intake scan with only the garden-plot schema: the registration still finds a fit (score 0.33, over
+    // the page gate's 0.3), and before, six of its "fields" were accepted from the clinic form's entries.
+    const wrong = await extractDocument(path.join(REPO, 'samples/clinic-intake-typed.png'), { schema: await loadSchemas([schema('garden-plot')]), detector });
+    expect(wrong.result.layout?.status).toBe('unknown_layout');
+    expect(wrong.result.counts.accepted).toBe(0);
+    expect(wrong.result.fields.every((f) => f.status !== 'accepted' && f.reasons.includes('unknown_layout'))).toBe(true);
+    // Its own schema alone still assigns it.
+    const own = await extractDocument(path.join(REPO, 'samples/clinic-intake-typed.png'), { schema: await loadSchemas([schema('clinic-intake')]), detector });
+    expect(own.result.layout).toBeUndefined();
+    expect(own.result.counts.accepted).toBeGreaterThan(10);
+  });
+});

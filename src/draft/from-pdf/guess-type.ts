@@ -38,7 +38,10 @@ export function guessTextType(w: PdfWidget): GuessedType {
   if (w.kind === 'dropdown') return w.options && w.options.length > 0 ? { type: 'choice_text', options: { choices: [...new Set(w.options)] } } : { type: 'text' };
   if (nameWords.includes('signature') && !has(all, 'date')) return { type: 'signature' };
   if (has(all, 'email', 'e') && /\be ?mail\b/.test(joined)) return { type: 'email' };
-  if (has(all, 'phone', 'telephone', 'fax', 'tel') && !has(all, 'extension', 'ext')) return { type: 'phone' };
+  // A whole number only: a widget holding fewer than 10 characters is one part of it ("Enter 3-digit Area Code",
+  // "Enter 7-digit Telephone Number" on USCIS I-589), which a phone field could never accept. 10 digits: a North
+  // American number without its country code (NANP numbering plan, from memory).
+  if (has(all, 'phone', 'telephone', 'fax', 'tel') && !has(all, 'extension', 'ext') && (max === undefined || max >= 10)) return { type: 'phone' };
   if (/\b(zip|postal)\b/.test(joined) && (max === undefined || max >= 5)) return { type: 'postal_code', options: { country: 'US' } };
   if (part) return { type: 'number', options: { integer: true } };
   if (has(all, 'date', 'dob', 'birthday') || /\bexecuted on\b/.test(joined) || /\bmm dd yyyy\b/.test(joined)) {

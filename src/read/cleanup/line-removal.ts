@@ -97,9 +97,14 @@ function repair(img: GrayImage, mark: Uint8Array, horizontal: boolean): void {
   }
 }
 
+/** The shortest horizontal run removeRuledLines takes for a rule by default in a crop this wide. */
+export function horizontalRuleLength(width: number): number {
+  return Math.max(20, Math.round(width * 0.4));
+}
+
 /** Remove long horizontal and vertical ruled lines (cell borders, underlines, comb separators) from a binary crop. */
 export function removeRuledLines(img: GrayImage, options: LineRemovalOptions = {}): LineRemoval {
-  const minH = options.minHorizontal ?? Math.max(20, Math.round(img.width * 0.4));
+  const minH = options.minHorizontal ?? horizontalRuleLength(img.width);
   const minV = options.minVertical ?? Math.max(12, Math.round(img.height * 0.6));
   const horizontal = markRuns(img, true, minH);
   const anchored = options.minAnchoredVertical;
@@ -123,12 +128,31 @@ export interface DashedRuleOptions {
 }
 
 /**
- * Remove dashed and dotted rules: at least `minPieces` small pieces whose centres lie within 2 px of one row, that
- * span a good part of the crop and cover at least a quarter of that span (dashes and dots are regular; scattered
- * specks that happen to share a row cover a few percent). Each dash is too short for the run test of
- * removeRuledLines. Shares are common practice, checked on bench/cleanup-gain.ts.
+ * Remove dashed and dotted rules, across the crop and down it: at least `minPieces` small pieces whose centres lie
+ * within 2 px of one row (or column), that span a good part of the crop and cover at least a quarter of that span
+ * (dashes and dots are regular; scattered specks that happen to share a row cover a few percent). Each dash is too
+ * short for the run test of removeRuledLines. Shares are common practice, checked on bench/cleanup-gain.ts. Dotted
+ * separators down a comb field (printed between the cells of the IRS Form 1040's SSN and name combs) read as "i"
+ * and ";" beside the digits before they were removed too.
  */
 export function removeDashedRules(img: GrayImage, options: DashedRuleOptions = {}): GrayImage {
+  const across = dashedPieces(img, options);
+  const down = dashedPieces(transpose(img), options);
+  const out = { width: img.width, height: img.height, data: img.data.slice() };
+  for (let y = 0; y < img.height; y++)
+    for (let x = 0; x < img.width; x++) if (across[y * img.width + x] || down[x * img.height + y]) out.data[y * img.width + x] = PAPER;
+  return out;
+}
+
+/** The image turned about its main diagonal (rows become columns). */
+function transpose(img: GrayImage): GrayImage {
+  const data = new Uint8Array(img.data.length);
+  for (let y = 0; y < img.height; y++) for (let x = 0; x < img.width; x++) data[x * img.height + y] = img.data[y * img.width + x];
+  return { width: img.height, height: img.width, data };
+}
+
+/** 1 where a pixel belongs to a dashed or dotted rule across the image (see removeDashedRules). */
+function dashedPieces(img: GrayImage, options: DashedRuleOptions): Uint8Array {
   const maxThick = options.maxThickness ?? 6;
   const minPieces = options.minPieces ?? 6;
   const minSpan = (options.minSpan ?? 0.4) * img.width;
@@ -136,7 +160,11 @@ export function removeDashedRules(img: GrayImage, options: DashedRuleOptions = {
   const pieces = components.filter((c) => c.box.h <= maxThick && c.box.w <= Math.max(maxThick * 8, img.width * 0.1));
   const drop = new Uint8Array(components.length + 1);
   for (let y = 0; y < img.height; y++) {
-    const row = pieces.filter((c) => Math.abs(c.box.y + c.box.h / 2 - y) <= 2).sort((a, b) => a.box.x - b.box.x);
+    const near = pieces.filter((c) => Math.abs(c.box.y + c.box.h / 2 - y) <= 2);
+    // Dashes of one rule have one length: a piece more than twice the row's middle length is a glyph beside the rule
+    // (a "1" or "l" against a dotted separator), not a dash.
+    const middle = near.map((c) => c.box.w).sort((a, b) => a - b)[Math.floor(near.length / 2)];
+    const row = near.filter((c) => c.box.w <= 2 * middle).sort((a, b) => a.box.x - b.box.x);
     if (row.length < minPieces) continue;
     const left = row[0].box.x;
     const right = Math.max(...row.map((c) => c.box.x + c.box.w));
@@ -149,7 +177,7 @@ export function removeDashedRules(img: GrayImage, options: DashedRuleOptions = {
     }
     if (covered >= 0.25 * (right - left)) for (const c of row) drop[c.id] = 1;
   }
-  const out = { width: img.width, height: img.height, data: img.data.slice() };
-  for (let k = 0; k < labels.length; k++) if (drop[labels[k]]) out.data[k] = PAPER;
-  return out;
+  const mark = new Uint8Array(labels.length);
+  for (let k = 0; k < labels.length; k++) if (drop[labels[k]]) mark[k] = 1;
+  return mark;
 }

@@ -4,12 +4,12 @@ import { createGray } from '../../image/raster.js';
 import { binarizeOtsu } from '../../image/otsu.js';
 import { binarizeSauvola } from '../../image/sauvola.js';
 import { estimateCropSkew, rotateCrop, uprightBox } from './deskew.js';
-import { removeDashedRules, removeRuledLines } from './line-removal.js';
-import { filterComponents } from '../../image/components.js';
+import { horizontalRuleLength, removeDashedRules, removeRuledLines } from './line-removal.js';
+import { filterComponents, labelComponents } from '../../image/components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
 import { padImage, trimAndPad } from './pad.js';
-import { INK, thresholdAt } from '../../image/binary.js';
+import { INK, PAPER, thresholdAt } from '../../image/binary.js';
 import { compactGapsAlong } from './compact.js';
 import { characterHeight } from './upscale.js';
 
@@ -89,7 +89,7 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
     case 'lines': {
       const b = ensureBinary(s);
       const removed = removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image);
-      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed) : removed };
+      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed, horizontalRuleLength(b.image.width)) : removed };
     }
     case 'components': {
       const b = ensureBinary(s);
@@ -133,14 +133,29 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
 
 /**
  * Rule removal limited to the blank's print: ink the removal took where the blank has no print is a pen stroke (the
- * stem of an l, t or k, a descender, an underline the writer drew) and goes back. In tight ruled cells those strokes
+ * stem of an l, t or k, a descender) and goes back. In tight ruled cells those strokes
  * are as tall as the cell and were erased as rules ("Stillwater" read "S-i.waer").
+ *
+ * Except pieces as wide as a ruled line (the length the lines step itself takes a horizontal run for a rule at): a frame
+ * drawn around the field that the blank lacks (the border and comb dividers a PDF viewer draws for a filled widget, a
+ * box the writer ruled), or a printed rule that lies further from its place on the blank than the tolerance. Stems
+ * and descenders are narrow; a pen stroke that long is an underline or a strike-through, not part of the value.
+ * Restoring them read "D" boxed as "0", empty boxed combs as letters (va-21-0966, typed fill) and added "ee ———" to
+ * small typed text sitting on its field's rule (nara-sf180).
  */
-function keepUnprinted(before: GrayImage, after: GrayImage, printed: GrayImage): GrayImage {
+function keepUnprinted(before: GrayImage, after: GrayImage, printed: GrayImage, ruleLength: number): GrayImage {
+  const taken = createGray(after.width, after.height, PAPER);
+  for (let i = 0; i < taken.data.length; i++) {
+    if (before.data[i] === INK && after.data[i] !== INK && printed.data[i] !== 0) taken.data[i] = INK;
+  }
+  const { labels, components } = labelComponents(taken);
+  const rule = new Uint8Array(components.length + 1);
+  for (const c of components) if (c.box.w >= ruleLength) rule[c.id] = 1;
   const data = Uint8Array.from(after.data);
-  for (let i = 0; i < data.length; i++) if (before.data[i] === INK && after.data[i] !== INK && printed.data[i] !== 0) data[i] = INK;
+  for (let i = 0; i < data.length; i++) if (labels[i] !== 0 && !rule[labels[i]]) data[i] = INK;
   return { width: after.width, height: after.height, data };
 }
+
 
 /** A rotated 0/255 mask back to exactly 0 and 255 (rotation blends its edges). */
 function invertedThreshold(img: GrayImage): GrayImage {

@@ -120,8 +120,10 @@ export function drawPdfValue(rng: Rng, src: FieldSource, persona: Persona): PdfV
       return { value: d.iso, text: d.text };
     }
     case 'phone': {
+      // Written as drawn, or as its ten digits where that is too long; never cut short, so what the page shows is
+      // the whole number the truth holds (a field too small for either stays blank: planFill).
       const p = drawPhone(rng);
-      return { value: p.e164, text: cap >= p.text.length ? p.text : p.e164.slice(2, 2 + cap) };
+      return { value: p.e164, text: cap >= p.text.length ? p.text : p.e164.slice(2) };
     }
     case 'email': {
       const e = drawEmail(rng, persona.given, persona.family);
