@@ -3,7 +3,8 @@ import type { Box } from '../image/geometry.js';
 import { center, iou, unionBox } from '../image/geometry.js';
 import { inkThreshold } from '../image/ink.js';
 import { cropGray } from '../image/raster.js';
-import { snapToFrame, snapToRules } from '../page/snap-box.js';
+import { snapToRules } from '../page/snap-box.js';
+import { hasRule, printedMark } from './printed-mark.js';
 import type { GrayImage } from '../image/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
@@ -40,6 +41,8 @@ export interface DraftedField {
   labelBox: Box | null;
   /** How the label sits relative to the area. */
   labelSide: LabelSide | null;
+  /** The label sits at the far end of what its side allows (more than half the limit away): a guess to check. */
+  labelFar?: boolean;
   detectionScore: number;
   options?: Record<string, unknown>;
   ocr?: { mode: 'line' | 'block' | 'word' | 'char'; allowed?: string };
@@ -50,6 +53,9 @@ export interface SchemaDraft {
   /** The schema as drafted, without the defaults that validation adds: what gets written to the file. */
   source: Record<string, unknown>;
   fields: DraftedField[];
+  /** Detections left out: checkboxes with no printed square or circle under them (letters, brackets), and other
+   *  areas with no printed rule along them (body text, headings). */
+  dropped: { checkboxWithoutMark: number; withoutRule: number };
 }
 
 export type LabelSide = 'inside' | 'left' | 'above' | 'right' | 'below';
@@ -70,10 +76,11 @@ export function labelFor(
   className: string,
   phrases: readonly Phrase[],
   rowLabels: ReadonlySet<Phrase> = new Set(),
-): { phrase: Phrase; side: LabelSide } | null {
-  let best: { phrase: Phrase; side: LabelSide; cost: number } | null = null;
-  const consider = (phrase: Phrase, side: LabelSide, cost: number) => {
-    if (!best || cost < best.cost) best = { phrase, side, cost };
+): { phrase: Phrase; side: LabelSide; far: boolean } | null {
+  let best: { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null = null;
+  // `far`: the gap is over half of what the side allows, so the phrase may be another area's label.
+  const consider = (phrase: Phrase, side: LabelSide, cost: number, far = false) => {
+    if (!best || cost < best.cost) best = { phrase, side, cost, far };
   };
   const [acx, acy] = center(area);
   for (const p of phrases) {
@@ -91,26 +98,26 @@ export function labelFor(
     // Left, on the same row (a label may touch the start of an underline).
     const leftGap = area.x - (b.x + b.w);
     if (leftGap >= -0.5 * ch && pcx < area.x && inRowBand && leftGap <= 12 * ch) {
-      consider(p, 'left', leftGap / ch + (className === 'checkbox' ? 1 : 0));
+      consider(p, 'left', leftGap / ch + (className === 'checkbox' ? 1 : 0), leftGap > 6 * ch);
     }
     // Above, starting over the area's left part — unless the phrase is the row label of another area.
     const aboveGap = area.y - (b.y + b.h);
     if (!rowLabels.has(p) && aboveGap >= -2 && aboveGap <= 3 * ch && b.x >= area.x - 2 * ch && b.x <= area.x + 0.5 * area.w) {
-      consider(p, 'above', aboveGap / ch + Math.abs(b.x - area.x) / (4 * ch) + (className === 'checkbox' ? 2 : className === 'signature_area' ? 1 : 0));
+      consider(p, 'above', aboveGap / ch + Math.abs(b.x - area.x) / (4 * ch) + (className === 'checkbox' ? 2 : className === 'signature_area' ? 1 : 0), aboveGap > 1.5 * ch);
     }
     // Right of a checkbox (or of any small square mark area).
     const rightGap = b.x - (area.x + area.w);
     if (className === 'checkbox' && rightGap >= -2 && rightGap <= 2 * ch && Math.abs(pcy - acy) <= 0.6 * Math.max(area.h, b.h)) {
-      consider(p, 'right', rightGap / ch);
+      consider(p, 'right', rightGap / ch, rightGap > ch);
     }
     // Below: the caption under a signature or date line; for other areas only when nothing sits left or above.
     const belowGap = b.y - (area.y + area.h);
     if (className !== 'checkbox' && belowGap >= -2 && belowGap <= 2 * ch && overlapsColumns && b.x >= area.x - 2 * ch && Math.abs(pcx - acx) <= area.w) {
-      consider(p, 'below', (className === 'signature_area' ? 0 : 3) + belowGap / ch);
+      consider(p, 'below', (className === 'signature_area' ? 0 : 3) + belowGap / ch, belowGap > ch);
     }
   }
-  const found = best as { phrase: Phrase; side: LabelSide; cost: number } | null;
-  return found ? { phrase: found.phrase, side: found.side } : null;
+  const found = best as { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null;
+  return found ? { phrase: found.phrase, side: found.side, far: found.far } : null;
 }
 
 /** Strip what OCR and form conventions add around a label: item markers, required-marks, trailing colons, stray rules. */
@@ -248,6 +255,7 @@ interface Candidate {
   det: Detection;
   phrase: Phrase | null;
   side: LabelSide | null;
+  far: boolean;
   /** OCR text of the phrase as read (before cleaning), or null. */
   text: string | null;
 }
@@ -300,6 +308,7 @@ export async function draftSchema(
 ): Promise<SchemaDraft> {
   const fields: DraftedField[] = [];
   const used = new Set<string>();
+  const dropped = { checkboxWithoutMark: 0, withoutRule: 0 };
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
     // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact. On a blank
@@ -308,9 +317,15 @@ export async function draftSchema(
     const dets = suppressAcrossClasses(detections[pi] ?? [])
       .flatMap((d) => {
         if (d.className !== 'checkbox') {
-          return [{ ...d, box: snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' }) }];
+          const box = snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' });
+          if (!hasRule(page, box, threshold)) {
+            dropped.withoutRule++;
+            return [];
+          }
+          return [{ ...d, box }];
         }
-        const frame = snapToFrame(page, d.box, { threshold });
+        const frame = printedMark(page, d.box, threshold);
+        if (!frame) dropped.checkboxWithoutMark++;
         return frame ? [{ ...d, box: frame }] : [];
       })
       .sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
@@ -330,7 +345,7 @@ export async function draftSchema(
     const rowLabels = rowLabelPhrases(dets.map((d) => d.box), phrases);
     for (const det of dets) {
       const found = labelFor(det.box, det.className, phrases, rowLabels);
-      cands.push({ det, phrase: found?.phrase ?? null, side: found?.side ?? null, text: found ? await read(found.phrase) : null });
+      cands.push({ det, phrase: found?.phrase ?? null, side: found?.side ?? null, far: found?.far ?? false, text: found ? await read(found.phrase) : null });
     }
     // Rows of a table carry their column's header only over the first row: an unlabelled area takes the label of
     // the area right above it in the same column (same class, same left edge and width within a character).
@@ -395,6 +410,7 @@ export async function draftSchema(
         region: toRegion(c.det.box),
         labelBox: c.phrase?.box ?? null,
         labelSide: c.side,
+        ...(c.far ? { labelFar: true } : {}),
         detectionScore: c.det.score,
         ...(guess.options ? { options: guess.options } : {}),
         ...(guess.ocr ? { ocr: guess.ocr } : {}),
@@ -415,5 +431,14 @@ export async function draftSchema(
       ...(f.ocr ? { ocr: f.ocr } : {}),
     })),
   };
-  return { schema: FormSchema.parse(source), source, fields };
+  return { schema: FormSchema.parse(source), source, fields, dropped };
+}
+
+/** Every drafted entry area on its own: a field's region, or each option of a drafted choice. */
+export function draftedAreas(fields: readonly DraftedField[]): Array<{ box: Box; className: string; field: DraftedField }> {
+  return fields.flatMap((f) => {
+    const choices = f.type === 'choice' ? (f.options as { choices?: Array<{ region: Region }> } | undefined)?.choices : undefined;
+    const regions = choices ? choices.map((c) => c.region) : [f.region];
+    return regions.map(([x, y, w, h]) => ({ box: { x, y, w, h }, className: f.className, field: f }));
+  });
 }
