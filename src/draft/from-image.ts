@@ -91,9 +91,11 @@ export function labelFor(
     const [pcx, pcy] = center(b);
     const inRowBand = pcy >= area.y - 0.25 * area.h && pcy <= area.y + 1.25 * area.h;
     const overlapsColumns = b.x < area.x + area.w && b.x + b.w > area.x;
-    // Inside the cell, in its upper part: the label printed in the cell's corner.
+    // Inside the cell, in its upper part: the label printed in the cell's corner. A caption inside the cell's own
+    // rules belongs to it whatever stands outside (a step heading in the margin, "Enter ..." on the W-4), so it
+    // is preferred by two character heights.
     if (pcx > area.x && pcx < area.x + area.w && b.y >= area.y - 2 && b.y + b.h <= area.y + 0.6 * area.h && b.h < 0.6 * area.h) {
-      consider(p, 'inside', (b.y - area.y) / ch + (0.1 * (b.x - area.x)) / ch);
+      consider(p, 'inside', (b.y - area.y) / ch + (0.1 * (b.x - area.x)) / ch - 2);
     }
     // Left, on the same row (a label may touch the start of an underline).
     const leftGap = area.x - (b.x + b.w);
