@@ -104,11 +104,14 @@ class StepBatches(torch.utils.data.Sampler):
             yield [(epoch, int(k)) for k in picks]
 
 
-def learning_rate(step: int, total: int, peak: float) -> float:
+def learning_rate(step: int, total: int, peak: float, time_fraction: float = 0.0) -> float:
+    """Linear warm-up, then cosine decay to FINAL_LR_FRACTION of the peak. Under a wall budget the decay follows
+    whichever is further along, the steps or the budget's time (`time_fraction`), so a run cut short by a busy
+    machine still ends at the low learning rate instead of mid-schedule."""
     warmup = max(1, min(WARMUP_MAX, int(total * WARMUP_FRACTION)))
     if step < warmup:
         return peak * (step + 1) / warmup
-    progress = (step - warmup) / max(1, total - warmup)
+    progress = max((step - warmup) / max(1, total - warmup), time_fraction)
     return peak * (FINAL_LR_FRACTION + (1 - FINAL_LR_FRACTION) * 0.5 * (1 + math.cos(math.pi * min(1.0, progress))))
 
 
@@ -148,7 +151,7 @@ def main(argv: list[str]) -> None:
     parser.add_argument("--box-balance", action="store_true", help="weigh positive cells by 1/sqrt(cells of their box) (loss.py)")
     parser.add_argument("--class-balance", action="store_true", help="draw pages so every class carries the same weight (class_balanced_weights)")
     parser.add_argument("--init-onnx", help="fine-tune: start from the weights of an exported detector (init_onnx.py); BatchNorm stays frozen")
-    parser.add_argument("--max-minutes", type=float, default=0, help="wall budget: stop (and write final.pt) after this many minutes; 0 = none")
+    parser.add_argument("--max-minutes", type=float, default=0, help="wall budget: the learning rate decays by steps or by time, whichever is further along, and the run stops (writing final.pt) when the budget is spent; 0 = none. Runs stopped by time are not bit-reproducible.")
     parser.add_argument("--threads", type=int, default=2)
     parser.add_argument("--workers", type=int, default=1, help="data-loading processes (0 = in the main process)")
     parser.add_argument("--checkpoint-every", type=int, default=200)
@@ -235,7 +238,8 @@ def main(argv: list[str]) -> None:
 
     train_mode()
     for images, cls_t, box_t, cells_t in loader:
-        lr = learning_rate(step, total_steps, args.lr)
+        budget_used = (elapsed_before + time.time() - started) / (60 * args.max_minutes) if args.max_minutes > 0 else 0.0
+        lr = learning_rate(step, total_steps, args.lr, budget_used)
         for group in optimizer.param_groups:
             group["lr"] = lr
         images = images.contiguous(memory_format=torch.channels_last)

@@ -58,13 +58,9 @@ function placeOf(f: { name: string; type: string; page: number; region: readonly
  * fillable widgets.
  */
 async function draftPdfWidgets(input: string, flags: DraftFlags): Promise<boolean> {
-  let head: Buffer;
-  try {
-    head = await readFile(input);
-  } catch (err) {
-    throw configError(input, `cannot read (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  if (!isPdf(head)) return false;
+  // A file that cannot be read is left to the image decoder, whose one-line errors every input shares.
+  const head = await readFile(input).catch(() => null);
+  if (!head || !isPdf(head)) return false;
   // Loaded on use: the PDF library is large, and image drafting starts without it.
   const { loadPdf, readPageWidgets } = await import('../draft/from-pdf/widgets.js');
   const doc = await loadPdf(head, input);
