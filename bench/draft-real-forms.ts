@@ -10,9 +10,10 @@
  *  - coverage: widget areas (each option of a radio group on its own) with a drafted area at IoU >= 0.5 (PASCAL
  *    VOC's criterion, Everingham et al. 2010), matched one to one, best IoU first;
  *  - spurious: drafted areas matched to no widget area;
- *  - names: of the drafted fields matched to a widget whose tooltip (/TU) reads as words (else whose own field name
- *    does, as "committee_name"), the share whose name words (three letters or more; the numeric suffix of a repeated
- *    name left out) all appear among those words: the form's author's words for the printed label.
+ *  - names: of the drafted fields matched to a widget whose tooltip (/TU) reads as words (with --name-truth also
+ *    those whose own field name does, as "committee_name"), the share whose name words (three letters or more; the
+ *    numeric suffix of a repeated name left out) all appear among those words: the form author's words for the
+ *    printed label.
  *    A name that lost its first letter to a checkbox detection ("ull_name") fails it. Fields named after the class
  *    (no label found) count as not matching.
  *  - unsure: fields `schema draft` lists for the user to check.
@@ -46,6 +47,7 @@ const { values: args } = parseArgs({
     only: { type: 'string' },
     json: { type: 'string' },
     verbose: { type: 'boolean', default: false },
+    'name-truth': { type: 'boolean', default: false },
   },
 });
 if (!['dev', 'held-out', 'all'].includes(args.half!)) throw new Error(`--half: dev, held-out or all; got "${args.half}"`);
@@ -108,8 +110,10 @@ try {
       const truth: Truth[] = pdf.sources.flatMap((s) =>
         s.boxes.map((box, i) => {
           const w = s.widgets[i] ?? s.widgets[0];
+          // The tooltip is the form author's wording of the printed label; a field's own name is often a code or an
+          // abbreviation ("is_nok" for "I am the deceased veteran's next of kin"), so it is used only on request.
           const partial = partialName(w.fieldName);
-          const source = isReadableTooltip(w.tooltip) ? w.tooltip : isMeaningfulName(partial) ? partial : null;
+          const source = isReadableTooltip(w.tooltip) ? w.tooltip : args['name-truth'] && isMeaningfulName(partial) ? partial : null;
           return { box, className: s.field.class, tooltipWords: source === null ? null : new Set(words(tooltipCore(source)).concat(words(source))) };
         }),
       );

@@ -70,12 +70,15 @@ function toRegion(b: Box): Region {
  * label within 12 characters' height; an above label within 3; a checkbox's right label within 2; a caption
  * below a signature or date line within 2) follow how printed forms are laid out (common practice). `rowLabels` are phrases that
  * already stand right before some area on their own row ("City ____"); they are not taken as a label above.
+ * `cellCaptions` are phrases printed inside some area's upper part (a cell's corner label); they are not taken as
+ * the caption below another area.
  */
 export function labelFor(
   area: Box,
   className: string,
   phrases: readonly Phrase[],
   rowLabels: ReadonlySet<Phrase> = new Set(),
+  cellCaptions: ReadonlySet<Phrase> = new Set(),
 ): { phrase: Phrase; side: LabelSide; far: boolean } | null {
   let best: { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null = null;
   // `far`: the gap is over half of what the side allows, so the phrase may be another area's label.
@@ -112,10 +115,14 @@ export function labelFor(
     if (className === 'checkbox' && rightGap >= -2 && rightGap <= 2 * ch && Math.abs(pcy - acy) <= 0.6 * Math.max(area.h, b.h)) {
       consider(p, 'right', rightGap / ch, rightGap > ch);
     }
-    // Below: the caption under a signature or date line; for other areas only when nothing sits left or above.
+    // Below: the caption under a signature or date line; for other areas only when nothing sits left or above,
+    // unless the layout prints its captions under the lines: a phrase starting where the line starts, right under
+    // it, and not the corner caption of another cell, is that line's caption ("First name" under the first of
+    // three lines) and comes before a phrase on the left.
     const belowGap = b.y - (area.y + area.h);
     if (className !== 'checkbox' && belowGap >= -2 && belowGap <= 2 * ch && overlapsColumns && b.x >= area.x - 2 * ch && Math.abs(pcx - acx) <= area.w) {
-      consider(p, 'below', (className === 'signature_area' ? 0 : 3) + belowGap / ch, belowGap > ch);
+      const caption = belowGap <= 1.5 * ch && Math.abs(b.x - area.x) <= 1.5 * ch && !cellCaptions.has(p);
+      consider(p, 'below', (className === 'signature_area' || caption ? -1 : 3) + belowGap / ch, belowGap > ch);
     }
   }
   const found = best as { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null;
@@ -214,10 +221,23 @@ function uniqueName(base: string, used: Set<string>): string {
  * full character height on the right, where a trailing colon or period (too small to count as a character
  * component) may sit.
  */
-async function readPhrase(page: GrayImage, p: Phrase, reader: LabelReader): Promise<string> {
+async function readPhrase(page: GrayImage, p: Phrase, reader: LabelReader, masks: readonly Box[]): Promise<string> {
   const pad = Math.max(3, Math.round(p.charHeight / 3));
   const right = Math.max(pad, Math.round(p.charHeight));
-  const crop = cropGray(page, { x: p.box.x - pad, y: p.box.y - pad, w: p.box.w + pad + right, h: p.box.h + 2 * pad });
+  const box = { x: p.box.x - pad, y: p.box.y - pad, w: p.box.w + pad + right, h: p.box.h + 2 * pad };
+  const crop = cropGray(page, box);
+  // A checkbox frame or comb printed right against the label would be read as a letter ("|" or "I" glued to the
+  // first word: "icharacter_of_service" on the DD 293): paper over them, a pixel beyond their outline.
+  // The crop's origin on the page, as cropGray places it (rounded down, clamped at the page edge).
+  const ox = Math.max(0, Math.floor(box.x));
+  const oy = Math.max(0, Math.floor(box.y));
+  for (const m of masks) {
+    const x0 = Math.max(0, Math.floor(m.x - 1 - ox));
+    const y0 = Math.max(0, Math.floor(m.y - 1 - oy));
+    const x1 = Math.min(crop.width, Math.ceil(m.x + m.w + 1 - ox));
+    const y1 = Math.min(crop.height, Math.ceil(m.y + m.h + 1 - oy));
+    for (let y = y0; y < y1; y++) crop.data.fill(255, y * crop.width + x0, y * crop.width + Math.max(x0, x1));
+  }
   return (await reader(crop)).replace(/\s+/g, ' ').trim();
 }
 
@@ -234,6 +254,16 @@ export function rowLabelPhrases(areas: readonly Box[], phrases: readonly Phrase[
         break;
       }
     }
+  }
+  return out;
+}
+
+/** Phrases printed in the upper part of some area (a cell's corner caption). */
+export function cellCaptionPhrases(areas: readonly Box[], phrases: readonly Phrase[]): Set<Phrase> {
+  const out = new Set<Phrase>();
+  for (const p of phrases) {
+    const [cx, cy] = center(p.box);
+    if (areas.some((a) => cx > a.x && cx < a.x + a.w && p.box.y >= a.y - 2 && cy <= a.y + 0.6 * a.h)) out.add(p);
   }
   return out;
 }
@@ -332,21 +362,23 @@ export async function draftSchema(
       })
       .sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
-    const phrases = findPhrases(page, { exclude: dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box) });
+    const marks = dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box);
+    const phrases = findPhrases(page, { exclude: marks });
     const typical = phrases.length ? [...phrases.map((p) => p.charHeight)].sort((a, b) => a - b)[phrases.length >> 1] : 16;
     const texts = new Map<Phrase, Promise<string>>();
     const read = (p: Phrase): Promise<string> => {
       let t = texts.get(p);
       if (!t) {
-        t = readPhrase(page, p, readLabel);
+        t = readPhrase(page, p, readLabel, marks);
         texts.set(p, t);
       }
       return t;
     };
     const cands: Candidate[] = [];
     const rowLabels = rowLabelPhrases(dets.map((d) => d.box), phrases);
+    const cellCaptions = cellCaptionPhrases(dets.map((d) => d.box), phrases);
     for (const det of dets) {
-      const found = labelFor(det.box, det.className, phrases, rowLabels);
+      const found = labelFor(det.box, det.className, phrases, rowLabels, cellCaptions);
       cands.push({ det, phrase: found?.phrase ?? null, side: found?.side ?? null, far: found?.far ?? false, text: found ? await read(found.phrase) : null });
     }
     // Rows of a table carry their column's header only over the first row: an unlabelled area takes the label of
