@@ -4,7 +4,7 @@ import { center, iou, unionBox } from '../image/geometry.js';
 import { inkThreshold } from '../image/ink.js';
 import { cropGray } from '../image/raster.js';
 import { snapToRules } from '../page/snap-box.js';
-import { hasRule, printedMark } from './printed-mark.js';
+import { hasRule, hasWritingSpace, printedMark } from './printed-mark.js';
 import type { GrayImage } from '../image/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
@@ -53,9 +53,10 @@ export interface SchemaDraft {
   /** The schema as drafted, without the defaults that validation adds: what gets written to the file. */
   source: Record<string, unknown>;
   fields: DraftedField[];
-  /** Detections left out: checkboxes with no printed square or circle under them (letters, brackets), and other
-   *  areas with no printed rule along them (body text, headings). */
-  dropped: { checkboxWithoutMark: number; withoutRule: number };
+  /** Detections left out: checkboxes with no printed square or circle under them (letters, brackets), other
+   *  areas with no printed rule along them (body text, headings), and text entries filled with print (table
+   *  header cells, section bands). */
+  dropped: { checkboxWithoutMark: number; withoutRule: number; noWritingSpace: number };
 }
 
 export type LabelSide = 'inside' | 'left' | 'above' | 'right' | 'below';
@@ -340,7 +341,7 @@ export async function draftSchema(
 ): Promise<SchemaDraft> {
   const fields: DraftedField[] = [];
   const used = new Set<string>();
-  const dropped = { checkboxWithoutMark: 0, withoutRule: 0 };
+  const dropped = { checkboxWithoutMark: 0, withoutRule: 0, noWritingSpace: 0 };
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
     // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact. On a blank
@@ -352,6 +353,10 @@ export async function draftSchema(
           const box = snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' });
           if (!hasRule(page, box, threshold)) {
             dropped.withoutRule++;
+            return [];
+          }
+          if (d.className === 'text_entry' && !hasWritingSpace(page, box, threshold)) {
+            dropped.noWritingSpace++;
             return [];
           }
           return [{ ...d, box }];

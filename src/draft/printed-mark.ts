@@ -121,3 +121,33 @@ export function hasRule(page: GrayImage, box: Box, threshold: number): boolean {
   }
   return false;
 }
+
+/**
+ * Share of an area's width that must stay free of print in its lower half for a person to write there: 0.4
+ * (measured on the development half of the real forms, bench/draft-real-forms.ts, where it drops the header cells of
+ * tables and shaded section bands and keeps cells with a caption in the corner or a short label on the left).
+ */
+const MIN_WRITING_SPACE = 0.4;
+
+/**
+ * Whether a text entry on a blank has room to write: the longest stretch of columns without print in the lower half
+ * of its inside (clear of its frame: 3 px or a tenth of the height at the edges) spans at least MIN_WRITING_SPACE of
+ * its width. A table's header cell or a heading band is ruled like an entry but filled with its centred text.
+ */
+export function hasWritingSpace(page: GrayImage, box: Box, threshold: number): boolean {
+  const m = Math.max(3, Math.round(0.1 * box.h));
+  const x0 = Math.max(0, Math.round(box.x + m));
+  const x1 = Math.min(page.width, Math.round(box.x + box.w - m));
+  const y0 = Math.max(0, Math.round(box.y + 0.5 * box.h));
+  const y1 = Math.min(page.height, Math.round(box.y + box.h - m));
+  if (x1 - x0 < 4 || y1 - y0 < 2) return true;
+  let best = 0;
+  let run = 0;
+  for (let x = x0; x < x1; x++) {
+    let ink = false;
+    for (let y = y0; y < y1 && !ink; y++) ink = page.data[y * page.width + x] <= threshold;
+    run = ink ? 0 : run + 1;
+    best = Math.max(best, run);
+  }
+  return best >= MIN_WRITING_SPACE * (x1 - x0);
+}

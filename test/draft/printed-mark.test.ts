@@ -5,7 +5,7 @@ import { labelComponents } from '../../src/image/components.js';
 import { iou } from '../../src/image/geometry.js';
 import { inkThreshold } from '../../src/image/ink.js';
 import { cropGray, grayFromImage } from '../../src/image/raster.js';
-import { enclosedShare, hasRule, printedMark } from '../../src/draft/printed-mark.js';
+import { enclosedShare, hasRule, hasWritingSpace, printedMark } from '../../src/draft/printed-mark.js';
 import { W4_BLANK } from '../real-form/w4-layout.js';
 
 // Real blanks (public domain, test/fixtures/real-forms/README.md): DD Form 293 page 1 and IRS Form W-4 (2025)
@@ -61,5 +61,18 @@ describe('hasRule: an entry area on a blank stands on a printed rule (real pixel
     // Lines of the "TIP:" paragraph under Step 1 (located by eye): print, but no rule to write on.
     expect(hasRule(page, { x: 300, y: 604, w: 700, h: 34 }, t)).toBe(false);
     expect(hasRule(page, { x: 120, y: 640, w: 900, h: 60 }, t)).toBe(false);
+  });
+});
+
+describe('hasWritingSpace: a text entry on a blank leaves room to write (real pixels)', () => {
+  it('keeps the W-4 cells with a caption in the corner and drops the step heading printed in its own column', async () => {
+    const page = await grayFromImage(W4_BLANK);
+    const t = inkThreshold(page);
+    // Hand-labelled cells of test/fixtures/real-forms/w4-page1.yaml: caption at the top, writing space below it.
+    expect(hasWritingSpace(page, { x: 261, y: 235, w: 497, h: 63 }, t)).toBe(true);
+    expect(hasWritingSpace(page, { x: 261, y: 301, w: 1057, h: 65 }, t)).toBe(true);
+    // "Step 1: Enter Personal Information", printed in the left column beside those cells (located by eye): ruled
+    // like a cell but filled with its heading.
+    expect(hasWritingSpace(page, { x: 95, y: 235, w: 160, h: 135 }, t)).toBe(false);
   });
 });
