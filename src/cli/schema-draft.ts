@@ -35,6 +35,7 @@ interface DraftFlags {
   name?: string;
   minScore?: string;
   fromImage?: boolean;
+  normalize: boolean;
 }
 
 /** Lines listing the drafted fields a person must check, at most `max` of them (the rest counted). */
@@ -138,6 +139,7 @@ export function addDraftSubcommand(schemaCommand: Command): void {
     .option('--name <name>', 'form name written into the schema (default: the input file name)')
     .option('--min-score <s>', 'lowest detection score drafted (default: the model\'s operating threshold)')
     .option('--from-image', 'draft a fillable PDF from its printed page too, not from its form fields')
+    .option('--no-normalize', 'take the pages as they are (upright and level), without turning or deskewing them')
     .action(async (input: string, flags: DraftFlags) => {
       const minScore = flags.minScore === undefined ? undefined : Number(flags.minScore);
       if (minScore !== undefined && !(minScore >= 0 && minScore <= 1)) {
@@ -150,7 +152,8 @@ export function addDraftSubcommand(schemaCommand: Command): void {
       const changed: boolean[] = [];
       const detections: Detection[][] = [];
       for (const page of doc.pages) {
-        const n = normalizePage(page);
+        // A blank rendered from a PDF is upright already; dense capitals can fool the orientation check.
+        const n = flags.normalize ? normalizePage(page) : { image: page, transform: { a: 1, b: 0, c: 0, d: 0, e: 1, f: 0 } };
         pages.push(n.image);
         const t = n.transform;
         changed.push(!(t.a === 1 && t.b === 0 && t.c === 0 && t.d === 0 && t.e === 1 && t.f === 0));

@@ -86,4 +86,16 @@ describe('formglean schema draft on real forms', () => {
     expect(listed.length).toBe(Math.min(40, Number(m![1])));
     expect(text).toMatch(/no printed label found: name it|weakly detected|check the name/);
   });
+  it('--no-normalize drafts a rendered blank as it is (the DD 293, whose dense capitals can fool the orientation check)', async () => {
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'draft-dd293-'));
+    const out = path.join(dir, 'dd293.yaml');
+    const blank = path.resolve('test/fixtures/real-forms/dod-dd293-2023-page1-blank.png');
+    await printed(() => run([blank, '--no-normalize', '--out', out]));
+    const loaded = await loadSchema(out);
+    // Taken as it is, the page is its own reference image (nothing turned, nothing written beside the draft).
+    expect(referenceImagePath(loaded, 0)).toBe(blank);
+    // Printed on the form beside its first row of boxes (the outside source): "Regular", "Reserve", "Guard".
+    const names = loaded.schema.fields.map((f) => f.name);
+    for (const n of ['regular', 'reserve', 'guard']) expect(names).toContain(n);
+  });
 });
