@@ -18,8 +18,9 @@ export const UNSURE_TEXT: Record<UnsureReason, string> = {
 };
 
 /**
- * Detection scores under this are listed: half-way between the shipped model's operating threshold (0.35,
- * models/README.md) and 1, the range where its false detections on real blanks sit (bench/draft-real-forms.ts).
+ * Detection scores under this are listed: a little above the shipped model's operating threshold (0.35,
+ * models/README.md), where its precision is low (0.69 for checkboxes on synthetic pages, far lower on real blanks).
+ * Our judgement, not fitted: a field listed needlessly costs the user a glance.
  */
 const WEAK_SCORE = 0.5;
 
