@@ -28,6 +28,7 @@ import torch
 
 from augment import compose
 from evaluate import collect, format_report, score
+from init_onnx import freeze_batchnorm, load_onnx_weights
 from loss import detection_loss
 from model import CLASS_NAMES, INPUT_H, INPUT_W, QuireNet
 from pages import DataError, fail, load_page_set
@@ -61,11 +62,28 @@ class PageSamples(torch.utils.data.Dataset):
         return torch.from_numpy(image)[None], torch.from_numpy(cls_t), torch.from_numpy(box_t), torch.from_numpy(cells)
 
 
-class StepBatches(torch.utils.data.Sampler):
-    """Batches of keys for global steps [start, total): epoch e uses a (seed, e)-seeded permutation."""
+def class_balanced_weights(page_sets, uniform_share: float = 0.5) -> np.ndarray:
+    """Page drawing probabilities in which every class carries the same total: a page's balanced weight is the sum,
+    over classes, of its share of that class's boxes, so a page holding the only signature areas is drawn as often as
+    all pages of text entries together. Mixed with `uniform_share` of uniform drawing so that every page, boxless
+    ones (pure negatives) included, is still seen (common practice for repeat-factor sampling of rare classes)."""
+    counts = [np.bincount(c, minlength=len(CLASS_NAMES)) if len(c) else np.zeros(len(CLASS_NAMES), dtype=np.int64) for ps in page_sets for c in ps.classes]
+    per_page = np.stack(counts).astype(np.float64)
+    totals = per_page.sum(axis=0)
+    present = totals > 0
+    balanced = (per_page[:, present] / totals[present]).sum(axis=1)
+    balanced /= max(balanced.sum(), 1e-12)
+    uniform = np.full(len(counts), 1.0 / len(counts))
+    return uniform_share * uniform + (1 - uniform_share) * balanced
 
-    def __init__(self, n: int, batch: int, seed: int, start: int, total: int):
+
+class StepBatches(torch.utils.data.Sampler):
+    """Batches of keys for global steps [start, total): epoch e uses a (seed, e)-seeded permutation, or, with
+    `weights`, a (seed, e)-seeded draw with replacement by those page probabilities."""
+
+    def __init__(self, n: int, batch: int, seed: int, start: int, total: int, weights: np.ndarray | None = None):
         self.n, self.batch, self.seed, self.start, self.total = n, batch, seed, start, total
+        self.weights = weights
         self.per_epoch = max(1, n // batch)
 
     def __len__(self) -> int:
@@ -76,7 +94,9 @@ class StepBatches(torch.utils.data.Sampler):
         for step in range(self.start, self.total):
             epoch, b = divmod(step, self.per_epoch)
             if epoch != perm_epoch:
-                perm_epoch, perm = epoch, np.random.default_rng([self.seed, epoch, 7919]).permutation(self.n)
+                rng = np.random.default_rng([self.seed, epoch, 7919])
+                perm_epoch = epoch
+                perm = rng.permutation(self.n) if self.weights is None else rng.choice(self.n, size=self.n, p=self.weights)
             if self.n < self.batch:
                 picks = np.resize(perm, self.batch)
             else:
@@ -84,11 +104,14 @@ class StepBatches(torch.utils.data.Sampler):
             yield [(epoch, int(k)) for k in picks]
 
 
-def learning_rate(step: int, total: int, peak: float) -> float:
+def learning_rate(step: int, total: int, peak: float, time_fraction: float = 0.0) -> float:
+    """Linear warm-up, then cosine decay to FINAL_LR_FRACTION of the peak. Under a wall budget the decay follows
+    whichever is further along, the steps or the budget's time (`time_fraction`), so a run cut short by a busy
+    machine still ends at the low learning rate instead of mid-schedule."""
     warmup = max(1, min(WARMUP_MAX, int(total * WARMUP_FRACTION)))
     if step < warmup:
         return peak * (step + 1) / warmup
-    progress = (step - warmup) / max(1, total - warmup)
+    progress = max((step - warmup) / max(1, total - warmup), time_fraction)
     return peak * (FINAL_LR_FRACTION + (1 - FINAL_LR_FRACTION) * 0.5 * (1 + math.cos(math.pi * min(1.0, progress))))
 
 
@@ -126,6 +149,9 @@ def main(argv: list[str]) -> None:
     parser.add_argument("--weight-decay", type=float, default=5e-4)
     parser.add_argument("--width", type=int, default=24, help="base channel width of the network")
     parser.add_argument("--box-balance", action="store_true", help="weigh positive cells by 1/sqrt(cells of their box) (loss.py)")
+    parser.add_argument("--class-balance", action="store_true", help="draw pages so every class carries the same weight (class_balanced_weights)")
+    parser.add_argument("--init-onnx", help="fine-tune: start from the weights of an exported detector (init_onnx.py); BatchNorm stays frozen")
+    parser.add_argument("--max-minutes", type=float, default=0, help="wall budget: the learning rate decays by steps or by time, whichever is further along, and the run stops (writing final.pt) when the budget is spent; 0 = none. Runs stopped by time are not bit-reproducible.")
     parser.add_argument("--threads", type=int, default=2)
     parser.add_argument("--workers", type=int, default=1, help="data-loading processes (0 = in the main process)")
     parser.add_argument("--checkpoint-every", type=int, default=200)
@@ -156,7 +182,14 @@ def main(argv: list[str]) -> None:
     steps_per_epoch = max(1, len(dataset) // args.batch)
     total_steps = steps_per_epoch * args.epochs
 
-    net = QuireNet(width=args.width).to(memory_format=torch.channels_last)
+    net = QuireNet(width=args.width)
+    if args.init_onnx:
+        try:
+            load_onnx_weights(net, args.init_onnx)
+        except DataError as err:
+            fail(err)
+        log(f"initial weights from {args.init_onnx} (BatchNorm frozen)")
+    net = net.to(memory_format=torch.channels_last)
     ema = copy.deepcopy(net).eval()
     for p in ema.parameters():
         p.requires_grad_(False)
@@ -193,14 +226,20 @@ def main(argv: list[str]) -> None:
 
     loader = torch.utils.data.DataLoader(
         dataset,
-        batch_sampler=StepBatches(len(dataset), args.batch, args.seed, step, stop_at),
+        batch_sampler=StepBatches(len(dataset), args.batch, args.seed, step, stop_at, class_balanced_weights(train_sets) if args.class_balance else None),
         num_workers=args.workers,
     )
     started = time.time()
     window_start, sums, window_steps = time.time(), np.zeros(3), 0
-    net.train()
+    def train_mode() -> None:
+        net.train()
+        if args.init_onnx:
+            freeze_batchnorm(net)
+
+    train_mode()
     for images, cls_t, box_t, cells_t in loader:
-        lr = learning_rate(step, total_steps, args.lr)
+        budget_used = (elapsed_before + time.time() - started) / (60 * args.max_minutes) if args.max_minutes > 0 else 0.0
+        lr = learning_rate(step, total_steps, args.lr, budget_used)
         for group in optimizer.param_groups:
             group["lr"] = lr
         images = images.contiguous(memory_format=torch.channels_last)
@@ -234,7 +273,11 @@ def main(argv: list[str]) -> None:
         if val_sets and (step % steps_per_epoch == 0 or step == stop_at):
             records = [r for vs in val_sets for r in collect(ema, vs)]
             log("validation (EMA weights)\n" + format_report(score(records, 0.3)))
-            net.train()
+            train_mode()
+        if args.max_minutes > 0 and elapsed >= 60 * args.max_minutes:
+            checkpoint(step, elapsed)
+            log(f"wall budget of {args.max_minutes} min reached at step {step}")
+            break
 
     elapsed = elapsed_before + time.time() - started
     save_atomic({"model": ema.state_dict(), "width": args.width, "step": step}, os.path.join(args.out, "final.pt"))
@@ -243,6 +286,8 @@ def main(argv: list[str]) -> None:
             "command": " ".join(shlex.quote(a) for a in [sys.executable, *sys.argv]),
             "seed": args.seed,
             "box_balance": args.box_balance,
+            "class_balance": args.class_balance,
+            "init_onnx": args.init_onnx,
             "width": args.width,
             "data": {d: len(s.images) for d, s in zip(args.data, train_sets)},
             "val": {d: len(s.images) for d, s in zip(args.val, val_sets)},

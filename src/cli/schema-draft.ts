@@ -1,9 +1,12 @@
+import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { Command } from 'commander';
 import { loadDetector } from '../detect/onnx-detector.js';
 import type { Detection } from '../detect/types.js';
 import { configError } from '../errors.js';
 import { decodeDocument } from '../input/decode.js';
+import { isPdf } from '../input/pdf.js';
+import { UNSURE_TEXT, unsureFields } from '../draft/unsure.js';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
 import { normalizePage } from '../page/normalize.js';
@@ -31,6 +34,52 @@ interface DraftFlags {
   overlay?: string;
   name?: string;
   minScore?: string;
+  fromImage?: boolean;
+  normalize: boolean;
+}
+
+/** Lines listing the drafted fields a person must check, at most `max` of them (the rest counted). */
+export function unsureLines(items: readonly { where: string; reasons: string[] }[], max = 40): string[] {
+  if (items.length === 0) return [];
+  const lines = [`${items.length} field(s) to check:`];
+  for (const it of items.slice(0, max)) lines.push(`  ${it.where}: ${it.reasons.join('; ')}`);
+  if (items.length > max) lines.push(`  ... and ${items.length - max} more (framed on the overlay)`);
+  return lines;
+}
+
+/** A drafted field's place, for the check list: name, type and region on its page. */
+function placeOf(f: { name: string; type: string; page: number; region: readonly number[] }): string {
+  const [x, y, w, h] = f.region;
+  return `${f.name} (${f.type}, page ${f.page + 1} at ${x},${y} ${w}x${h})`;
+}
+
+/**
+ * A fillable PDF is drafted from its widgets (`schema from-pdf`'s path), whose places and kinds are exact, rather
+ * than from the printed page. Returns false (nothing written) when the file is not a PDF or its first page has no
+ * fillable widgets.
+ */
+async function draftPdfWidgets(input: string, flags: DraftFlags): Promise<boolean> {
+  // A file that cannot be read is left to the image decoder, whose one-line errors every input shares.
+  const head = await readFile(input).catch(() => null);
+  if (!head || !isPdf(head)) return false;
+  // Loaded on use: the PDF library is large, and image drafting starts without it.
+  const { loadPdf, readPageWidgets } = await import('../draft/from-pdf/widgets.js');
+  const doc = await loadPdf(head, input);
+  if (readPageWidgets(doc, 0, input).widgets.length === 0) return false;
+  const { blankImageName, draftFromPdf, writePdfSchema } = await import('../draft/from-pdf/from-pdf.js');
+  const { isMeaningfulName } = await import('../draft/from-pdf/naming.js');
+  const draft = await draftFromPdf(input, { page: 0, image: blankImageName(flags.out), name: flags.name, bytes: head });
+  const written = await writePdfSchema(draft, flags.out);
+  process.stdout.write(
+    `${input}: a fillable PDF; drafted from the ${draft.schema.fields.length} form fields of page 1 (as \`schema from-pdf\` does; ` +
+      `--from-image drafts from the printed page instead): wrote ${written.schema} and ${written.blank}\n`,
+  );
+  // A field named only by its authoring tool's code ("f1_01") has no words for a person to recognize it by.
+  const unsure = draft.schema.fields
+    .filter((f) => !isMeaningfulName(f.name))
+    .map((f) => ({ where: placeOf(f), reasons: ['the PDF gives no readable name or tooltip: name it'] }));
+  for (const line of unsureLines(unsure)) process.stdout.write(`${line}\n`);
+  return true;
 }
 
 /** The drafted fields of one page as overlay items: fields framed by class, their labels in thin gray. */
@@ -83,24 +132,28 @@ export function addDraftSubcommand(schemaCommand: Command): void {
   schemaCommand
     .command('draft')
     .description('Draft a schema from a blank form: detect entry areas, read their labels, guess names and types')
-    .argument('<blank-form>', 'blank form image (png, jpeg or tiff; one page per tiff page)')
+    .argument('<blank-form>', 'blank form: image (png, jpeg or tiff; one page per tiff page) or PDF (a fillable one is drafted from its form fields)')
     .requiredOption('--out <file>', 'schema file to write (YAML)')
     .option('--model <file>', 'ONNX form-element detector', DEFAULT_MODEL_PATH)
     .option('--overlay <png>', 'overlay of the drafted fields to check by eye (default: <out>.overlay.png; page 1)')
     .option('--name <name>', 'form name written into the schema (default: the input file name)')
     .option('--min-score <s>', 'lowest detection score drafted (default: the model\'s operating threshold)')
+    .option('--from-image', 'draft a fillable PDF from its printed page too, not from its form fields')
+    .option('--no-normalize', 'take the pages as they are (upright and level), without turning or deskewing them')
     .action(async (input: string, flags: DraftFlags) => {
       const minScore = flags.minScore === undefined ? undefined : Number(flags.minScore);
       if (minScore !== undefined && !(minScore >= 0 && minScore <= 1)) {
         throw configError(undefined, `--min-score must be a number from 0 to 1; got "${flags.minScore}"`);
       }
+      if (!flags.fromImage && (await draftPdfWidgets(input, flags))) return;
       const detector = await loadDetector(flags.model);
       const doc = await decodeDocument(input);
       const pages: GrayImage[] = [];
       const changed: boolean[] = [];
       const detections: Detection[][] = [];
       for (const page of doc.pages) {
-        const n = normalizePage(page);
+        // A blank rendered from a PDF is upright already; dense capitals can fool the orientation check.
+        const n = flags.normalize ? normalizePage(page) : { image: page, transform: { a: 1, b: 0, c: 0, d: 0, e: 1, f: 0 } };
         pages.push(n.image);
         const t = n.transform;
         changed.push(!(t.a === 1 && t.b === 0 && t.c === 0 && t.d === 0 && t.e === 1 && t.f === 0));
@@ -127,5 +180,7 @@ export function addDraftSubcommand(schemaCommand: Command): void {
       await writeFileAtomic(overlay, await renderOverlay(pages[0], draftOverlayItems(draft.fields, 0)));
       const extra = refs.written.length ? `, reference page(s) ${refs.written.join(', ')}` : '';
       process.stdout.write(`${flags.out}: ${summary(draft)}; overlay ${overlay}${extra}\n`);
+      const unsure = unsureFields(draft.fields).map((u) => ({ where: placeOf(u.field), reasons: u.reasons.map((r) => UNSURE_TEXT[r]) }));
+      for (const line of unsureLines(unsure)) process.stdout.write(`${line}\n`);
     });
 }

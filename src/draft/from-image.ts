@@ -3,7 +3,8 @@ import type { Box } from '../image/geometry.js';
 import { center, iou, unionBox } from '../image/geometry.js';
 import { inkThreshold } from '../image/ink.js';
 import { cropGray } from '../image/raster.js';
-import { snapToFrame, snapToRules } from '../page/snap-box.js';
+import { snapToRules } from '../page/snap-box.js';
+import { hasRule, hasWritingSpace, printedMark } from './printed-mark.js';
 import type { GrayImage } from '../image/raster.js';
 import type { Phrase } from '../page/text-phrases.js';
 import { findPhrases } from '../page/text-phrases.js';
@@ -40,6 +41,8 @@ export interface DraftedField {
   labelBox: Box | null;
   /** How the label sits relative to the area. */
   labelSide: LabelSide | null;
+  /** The label sits at the far end of what its side allows (more than half the limit away): a guess to check. */
+  labelFar?: boolean;
   detectionScore: number;
   options?: Record<string, unknown>;
   ocr?: { mode: 'line' | 'block' | 'word' | 'char'; allowed?: string };
@@ -50,6 +53,10 @@ export interface SchemaDraft {
   /** The schema as drafted, without the defaults that validation adds: what gets written to the file. */
   source: Record<string, unknown>;
   fields: DraftedField[];
+  /** Detections left out: checkboxes with no printed square or circle under them (letters, brackets), other
+   *  areas with no printed rule along them (body text, headings), and text entries filled with print (table
+   *  header cells, section bands). */
+  dropped: { checkboxWithoutMark: number; withoutRule: number; noWritingSpace: number };
 }
 
 export type LabelSide = 'inside' | 'left' | 'above' | 'right' | 'below';
@@ -64,16 +71,20 @@ function toRegion(b: Box): Region {
  * label within 12 characters' height; an above label within 3; a checkbox's right label within 2; a caption
  * below a signature or date line within 2) follow how printed forms are laid out (common practice). `rowLabels` are phrases that
  * already stand right before some area on their own row ("City ____"); they are not taken as a label above.
+ * `cellCaptions` are phrases printed inside some area's upper part (a cell's corner label); they are not taken as
+ * the caption below another area.
  */
 export function labelFor(
   area: Box,
   className: string,
   phrases: readonly Phrase[],
   rowLabels: ReadonlySet<Phrase> = new Set(),
-): { phrase: Phrase; side: LabelSide } | null {
-  let best: { phrase: Phrase; side: LabelSide; cost: number } | null = null;
-  const consider = (phrase: Phrase, side: LabelSide, cost: number) => {
-    if (!best || cost < best.cost) best = { phrase, side, cost };
+  cellCaptions: ReadonlySet<Phrase> = new Set(),
+): { phrase: Phrase; side: LabelSide; far: boolean } | null {
+  let best: { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null = null;
+  // `far`: the gap is over half of what the side allows, so the phrase may be another area's label.
+  const consider = (phrase: Phrase, side: LabelSide, cost: number, far = false) => {
+    if (!best || cost < best.cost) best = { phrase, side, cost, far };
   };
   const [acx, acy] = center(area);
   for (const p of phrases) {
@@ -84,33 +95,39 @@ export function labelFor(
     const [pcx, pcy] = center(b);
     const inRowBand = pcy >= area.y - 0.25 * area.h && pcy <= area.y + 1.25 * area.h;
     const overlapsColumns = b.x < area.x + area.w && b.x + b.w > area.x;
-    // Inside the cell, in its upper part: the label printed in the cell's corner.
+    // Inside the cell, in its upper part: the label printed in the cell's corner. A caption inside the cell's own
+    // rules belongs to it whatever stands outside (a step heading in the margin, "Enter ..." on the W-4), so it
+    // is preferred by two character heights.
     if (pcx > area.x && pcx < area.x + area.w && b.y >= area.y - 2 && b.y + b.h <= area.y + 0.6 * area.h && b.h < 0.6 * area.h) {
-      consider(p, 'inside', (b.y - area.y) / ch + (0.1 * (b.x - area.x)) / ch);
+      consider(p, 'inside', (b.y - area.y) / ch + (0.1 * (b.x - area.x)) / ch - 2);
     }
     // Left, on the same row (a label may touch the start of an underline).
     const leftGap = area.x - (b.x + b.w);
     if (leftGap >= -0.5 * ch && pcx < area.x && inRowBand && leftGap <= 12 * ch) {
-      consider(p, 'left', leftGap / ch + (className === 'checkbox' ? 1 : 0));
+      consider(p, 'left', leftGap / ch + (className === 'checkbox' ? 1 : 0), leftGap > 6 * ch);
     }
     // Above, starting over the area's left part — unless the phrase is the row label of another area.
     const aboveGap = area.y - (b.y + b.h);
     if (!rowLabels.has(p) && aboveGap >= -2 && aboveGap <= 3 * ch && b.x >= area.x - 2 * ch && b.x <= area.x + 0.5 * area.w) {
-      consider(p, 'above', aboveGap / ch + Math.abs(b.x - area.x) / (4 * ch) + (className === 'checkbox' ? 2 : className === 'signature_area' ? 1 : 0));
+      consider(p, 'above', aboveGap / ch + Math.abs(b.x - area.x) / (4 * ch) + (className === 'checkbox' ? 2 : className === 'signature_area' ? 1 : 0), aboveGap > 1.5 * ch);
     }
     // Right of a checkbox (or of any small square mark area).
     const rightGap = b.x - (area.x + area.w);
     if (className === 'checkbox' && rightGap >= -2 && rightGap <= 2 * ch && Math.abs(pcy - acy) <= 0.6 * Math.max(area.h, b.h)) {
-      consider(p, 'right', rightGap / ch);
+      consider(p, 'right', rightGap / ch, rightGap > ch);
     }
-    // Below: the caption under a signature or date line; for other areas only when nothing sits left or above.
+    // Below: the caption under a signature or date line; for other areas only when nothing sits left or above,
+    // unless the layout prints its captions under the lines: a phrase starting where the line starts, right under
+    // it, and not the corner caption of another cell, is that line's caption ("First name" under the first of
+    // three lines) and comes before a phrase on the left.
     const belowGap = b.y - (area.y + area.h);
     if (className !== 'checkbox' && belowGap >= -2 && belowGap <= 2 * ch && overlapsColumns && b.x >= area.x - 2 * ch && Math.abs(pcx - acx) <= area.w) {
-      consider(p, 'below', (className === 'signature_area' ? 0 : 3) + belowGap / ch);
+      const caption = belowGap <= 1.5 * ch && Math.abs(b.x - area.x) <= 1.5 * ch && !cellCaptions.has(p);
+      consider(p, 'below', (className === 'signature_area' || caption ? -1 : 3) + belowGap / ch, belowGap > ch);
     }
   }
-  const found = best as { phrase: Phrase; side: LabelSide; cost: number } | null;
-  return found ? { phrase: found.phrase, side: found.side } : null;
+  const found = best as { phrase: Phrase; side: LabelSide; cost: number; far: boolean } | null;
+  return found ? { phrase: found.phrase, side: found.side, far: found.far } : null;
 }
 
 /** Strip what OCR and form conventions add around a label: item markers, required-marks, trailing colons, stray rules. */
@@ -205,10 +222,23 @@ function uniqueName(base: string, used: Set<string>): string {
  * full character height on the right, where a trailing colon or period (too small to count as a character
  * component) may sit.
  */
-async function readPhrase(page: GrayImage, p: Phrase, reader: LabelReader): Promise<string> {
+async function readPhrase(page: GrayImage, p: Phrase, reader: LabelReader, masks: readonly Box[]): Promise<string> {
   const pad = Math.max(3, Math.round(p.charHeight / 3));
   const right = Math.max(pad, Math.round(p.charHeight));
-  const crop = cropGray(page, { x: p.box.x - pad, y: p.box.y - pad, w: p.box.w + pad + right, h: p.box.h + 2 * pad });
+  const box = { x: p.box.x - pad, y: p.box.y - pad, w: p.box.w + pad + right, h: p.box.h + 2 * pad };
+  const crop = cropGray(page, box);
+  // A checkbox frame or comb printed right against the label would be read as a letter ("|" or "I" glued to the
+  // first word: "icharacter_of_service" on the DD 293): paper over them, a pixel beyond their outline.
+  // The crop's origin on the page, as cropGray places it (rounded down, clamped at the page edge).
+  const ox = Math.max(0, Math.floor(box.x));
+  const oy = Math.max(0, Math.floor(box.y));
+  for (const m of masks) {
+    const x0 = Math.max(0, Math.floor(m.x - 1 - ox));
+    const y0 = Math.max(0, Math.floor(m.y - 1 - oy));
+    const x1 = Math.min(crop.width, Math.ceil(m.x + m.w + 1 - ox));
+    const y1 = Math.min(crop.height, Math.ceil(m.y + m.h + 1 - oy));
+    for (let y = y0; y < y1; y++) crop.data.fill(255, y * crop.width + x0, y * crop.width + Math.max(x0, x1));
+  }
   return (await reader(crop)).replace(/\s+/g, ' ').trim();
 }
 
@@ -225,6 +255,16 @@ export function rowLabelPhrases(areas: readonly Box[], phrases: readonly Phrase[
         break;
       }
     }
+  }
+  return out;
+}
+
+/** Phrases printed in the upper part of some area (a cell's corner caption). */
+export function cellCaptionPhrases(areas: readonly Box[], phrases: readonly Phrase[]): Set<Phrase> {
+  const out = new Set<Phrase>();
+  for (const p of phrases) {
+    const [cx, cy] = center(p.box);
+    if (areas.some((a) => cx > a.x && cx < a.x + a.w && p.box.y >= a.y - 2 && cy <= a.y + 0.6 * a.h)) out.add(p);
   }
   return out;
 }
@@ -248,6 +288,7 @@ interface Candidate {
   det: Detection;
   phrase: Phrase | null;
   side: LabelSide | null;
+  far: boolean;
   /** OCR text of the phrase as read (before cleaning), or null. */
   text: string | null;
 }
@@ -300,6 +341,7 @@ export async function draftSchema(
 ): Promise<SchemaDraft> {
   const fields: DraftedField[] = [];
   const used = new Set<string>();
+  const dropped = { checkboxWithoutMark: 0, withoutRule: 0, noWritingSpace: 0 };
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
     // Detector boxes are good to a few pixels; the blank's printed frames and underlines are exact. On a blank
@@ -308,29 +350,41 @@ export async function draftSchema(
     const dets = suppressAcrossClasses(detections[pi] ?? [])
       .flatMap((d) => {
         if (d.className !== 'checkbox') {
-          return [{ ...d, box: snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' }) }];
+          const box = snapToRules(page, d.box, { threshold, prefer: d.className === 'comb_field' ? 'outer' : 'inner' });
+          if (!hasRule(page, box, threshold)) {
+            dropped.withoutRule++;
+            return [];
+          }
+          if (d.className === 'text_entry' && !hasWritingSpace(page, box, threshold)) {
+            dropped.noWritingSpace++;
+            return [];
+          }
+          return [{ ...d, box }];
         }
-        const frame = snapToFrame(page, d.box, { threshold });
+        const frame = printedMark(page, d.box, threshold);
+        if (!frame) dropped.checkboxWithoutMark++;
         return frame ? [{ ...d, box: frame }] : [];
       })
       .sort((a, b) => a.box.y - b.box.y || a.box.x - b.box.x);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
-    const phrases = findPhrases(page, { exclude: dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box) });
+    const marks = dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box);
+    const phrases = findPhrases(page, { exclude: marks });
     const typical = phrases.length ? [...phrases.map((p) => p.charHeight)].sort((a, b) => a - b)[phrases.length >> 1] : 16;
     const texts = new Map<Phrase, Promise<string>>();
     const read = (p: Phrase): Promise<string> => {
       let t = texts.get(p);
       if (!t) {
-        t = readPhrase(page, p, readLabel);
+        t = readPhrase(page, p, readLabel, marks);
         texts.set(p, t);
       }
       return t;
     };
     const cands: Candidate[] = [];
     const rowLabels = rowLabelPhrases(dets.map((d) => d.box), phrases);
+    const cellCaptions = cellCaptionPhrases(dets.map((d) => d.box), phrases);
     for (const det of dets) {
-      const found = labelFor(det.box, det.className, phrases, rowLabels);
-      cands.push({ det, phrase: found?.phrase ?? null, side: found?.side ?? null, text: found ? await read(found.phrase) : null });
+      const found = labelFor(det.box, det.className, phrases, rowLabels, cellCaptions);
+      cands.push({ det, phrase: found?.phrase ?? null, side: found?.side ?? null, far: found?.far ?? false, text: found ? await read(found.phrase) : null });
     }
     // Rows of a table carry their column's header only over the first row: an unlabelled area takes the label of
     // the area right above it in the same column (same class, same left edge and width within a character).
@@ -395,6 +449,7 @@ export async function draftSchema(
         region: toRegion(c.det.box),
         labelBox: c.phrase?.box ?? null,
         labelSide: c.side,
+        ...(c.far ? { labelFar: true } : {}),
         detectionScore: c.det.score,
         ...(guess.options ? { options: guess.options } : {}),
         ...(guess.ocr ? { ocr: guess.ocr } : {}),
@@ -415,5 +470,14 @@ export async function draftSchema(
       ...(f.ocr ? { ocr: f.ocr } : {}),
     })),
   };
-  return { schema: FormSchema.parse(source), source, fields };
+  return { schema: FormSchema.parse(source), source, fields, dropped };
+}
+
+/** Every drafted entry area on its own: a field's region, or each option of a drafted choice. */
+export function draftedAreas(fields: readonly DraftedField[]): Array<{ box: Box; className: string; field: DraftedField }> {
+  return fields.flatMap((f) => {
+    const choices = f.type === 'choice' ? (f.options as { choices?: Array<{ region: Region }> } | undefined)?.choices : undefined;
+    const regions = choices ? choices.map((c) => c.region) : [f.region];
+    return regions.map(([x, y, w, h]) => ({ box: { x, y, w, h }, className: f.className, field: f }));
+  });
 }

@@ -31,7 +31,7 @@ type Edge = 'top' | 'bottom' | 'left' | 'right';
  * of the span; gaps of up to 2 px (a scan's broken rule) do not end a stretch. Stretches, not totals: a column
  * through the stems of two text lines is mostly ink but broken by the gap between the lines; a rule is not.
  */
-function cover(img: GrayImage, horizontal: boolean, at: number, from: number, to: number, t: number): number {
+export function inkRunShare(img: GrayImage, horizontal: boolean, at: number, from: number, to: number, t: number): number {
   const lo = Math.max(0, Math.floor(from));
   const hi = Math.min(horizontal ? img.width : img.height, Math.ceil(to));
   if (hi <= lo || at < 0 || at >= (horizontal ? img.height : img.width)) return 0;
@@ -59,7 +59,7 @@ function ruleNear(img: GrayImage, box: Box, edge: Edge, reach: number, minCover:
   const from = horizontal ? box.x + 0.15 * box.w : box.y + 0.15 * box.h;
   const to = horizontal ? box.x + 0.85 * box.w : box.y + 0.85 * box.h;
   const m = Math.max(3, Math.round(reach * Math.min(box.w, box.h)));
-  const at = (k: number) => cover(img, horizontal, k, from, to, t);
+  const at = (k: number) => inkRunShare(img, horizontal, k, from, to, t);
   // Inward is +1 for the top and left edges, -1 for the bottom and right ones.
   const inward = edge === 'top' || edge === 'left' ? 1 : -1;
   const dir = prefer === 'inner' ? inward : -inward;

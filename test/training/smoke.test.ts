@@ -74,4 +74,30 @@ describe('training smoke run (train.py → export.py → onnxruntime-node)', () 
     expect(Array.isArray(found)).toBe(true);
     await detector.close();
   }, 175_000);
+  it('fine-tunes from the shipped ONNX detector: at learning rate 0 the exported weights reproduce its detections', async (ctx) => {
+    skipUnlessPresent(ctx, missing);
+    const data = path.join(work, 'pages-ft');
+    await generateSamples({ layout: 'random', count: 2, seed: 4343, out: data, fill: 'mixed', degrade: 'light', dpi: 100, styles: 'train', format: 'png', upsideDownRate: 0 });
+    const run = path.join(work, 'run-ft');
+    const shipped = path.join(root, 'models', 'form-elements.onnx');
+    // One step with the class-balanced sampler and frozen BatchNorm, learning rate 0: the weights read back from the
+    // ONNX file (its BatchNorm folded into the convolutions, training/init_onnx.py) must come out unchanged.
+    const log = python(['training/train.py', '--data', data, '--epochs', '1', '--max-steps', '1', '--batch', '2', '--workers', '0', '--seed', '3', '--class-balance', '--init-onnx', shipped, '--lr', '0', '--out', run], 150_000);
+    expect(log).toMatch(/initial weights from .*form-elements\.onnx \(BatchNorm frozen\)/);
+    const model = path.join(work, 'refit.onnx');
+    python(['training/export.py', '--checkpoint', path.join(run, 'final.pt'), '--out', model, '--threshold', '0.35'], 120_000);
+    // Same detections on a real blank (IRS W-4 2025 page 1, test/fixtures/real-forms) from both files.
+    const page = await grayFromImage(path.join(root, 'test', 'fixtures', 'real-forms', 'irs-w4-2025-page1-blank.png'));
+    const [a, b] = await Promise.all([loadDetector(shipped, { intraOpThreads: 1 }), loadDetector(model, { intraOpThreads: 1 })]);
+    const [da, db] = [await a.detect(page), await b.detect(page)];
+    await a.close();
+    await b.close();
+    expect(db.length).toBe(da.length);
+    expect(da.length).toBeGreaterThan(10);
+    da.forEach((d, i) => {
+      expect(db[i].className).toBe(d.className);
+      expect(Math.abs(db[i].score - d.score)).toBeLessThan(1e-4);
+      expect(Math.abs(db[i].box.x - d.box.x)).toBeLessThan(0.05);
+    });
+  }, 175_000);
 });

@@ -86,7 +86,7 @@ export function entryAreas(sources: readonly FieldSource[]): { class: DetectorCl
 }
 
 /** One filled, scanned page with its truth. */
-async function fillPage(bytes: Uint8Array, draft: PdfSchemaDraft, o: FillPdfOptions, index: number, name: string) {
+export async function fillPage(bytes: Uint8Array, draft: PdfSchemaDraft, o: FillPdfOptions, index: number, name: string) {
   const seedOfPage = pageSeed(o.seed, index, name);
   const rng = new Rng(seedOfPage);
   const mode: FillMode = o.fill === 'mixed' ? (index % 2 === 0 ? 'typed' : 'handwriting') : o.fill;
