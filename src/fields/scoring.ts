@@ -1,7 +1,7 @@
 import { applyConfidenceMap, type ConfidenceMapPoints } from './confidence-map.js';
 import type { Interpretation, Reading } from './types.js';
 import type { ReasonCode } from './reasons.js';
-import type { FieldSource, ReadStatus } from '../result/document.js';
+import type { FieldSource, FieldStatus, ReadStatus } from '../result/document.js';
 
 /**
  * Confidence and status of one field, from everything known about it (pure).
@@ -222,4 +222,20 @@ export function scoreField(input: ScoreInput): FieldScore {
   if (status === 'missing') reasons.push('required_empty');
   if (status === 'review' && reasons.length === 0) reasons.push('below_review_threshold');
   return { status, confidence, reasons: unique(reasons), scores };
+}
+
+/** Why a field was not read at all: its page is not in the file, its page does not fit the layout, or its box lies off the page. */
+export type UnreadCause = 'page_missing' | 'page_not_aligned' | 'off_page';
+
+/**
+ * The status of a field that was not read. A page the file does not have leaves a required field missing (nothing
+ * is there to review); a page that was there but could not be read in place goes to a person.
+ */
+export function unreadStatus(cause: UnreadCause, required: boolean): ReadStatus {
+  return cause === 'page_missing' && required ? 'missing' : 'review';
+}
+
+/** A form whose layout is unknown (no schema fits it well): none of its fields is accepted, whatever it read. */
+export function statusInUnknownLayout(status: FieldStatus): FieldStatus {
+  return status === 'accepted' ? 'review' : status;
 }

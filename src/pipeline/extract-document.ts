@@ -15,6 +15,7 @@ import { normalizePage } from '../page/normalize.js';
 import type { GrayImage } from '../image/raster.js';
 import type { DocumentResult, FieldResult, PageResult } from '../result/document.js';
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
+import { statusInUnknownLayout, unreadStatus, type UnreadCause } from '../fields/scoring.js';
 import type { FieldSpec } from '../schema/definition.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { documentError } from '../errors.js';
@@ -191,7 +192,7 @@ async function extractForm(
     // some off the page); each of its fields goes to review.
     if (misfit) {
       const why: ReasonCode[] = choice.status === 'unknown_layout' ? ['unknown_layout', 'page_not_aligned'] : ['page_not_aligned'];
-      fields.push(...pageFields.map((f) => unreadField(f, 'review', ...why)));
+      fields.push(...pageFields.map((f) => unreadField(f, 'page_not_aligned', ...why)));
       continue;
     }
     const { located, reference, ocrPage } = await clock.time('locate', async () => {
@@ -206,7 +207,7 @@ async function extractForm(
     });
     for (const lf of located) {
       if (lf.parts.some((part) => part.box && !boxOnPage(part.box, normalized.image))) {
-        fields.push(unreadField(lf.field, 'review', 'off_page'));
+        fields.push(unreadField(lf.field, 'off_page', 'off_page'));
         continue;
       }
       const type = getFieldType(lf.field.type);
@@ -234,13 +235,13 @@ async function extractForm(
     const field = buildFieldResult(lf, outcome, schema.defaults.reviewThreshold, toSource, legibility[i], alignment);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
-      if (field.status === 'accepted') field.status = 'review';
+      field.status = statusInUnknownLayout(field.status);
     }
     fields.push(field);
   }
 
   // Fields on pages the file does not have (a form cut short).
-  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) fields.push(unreadField(f, f.required ? 'missing' : 'review', 'page_missing'));
+  for (const f of schema.fields.filter((x) => x.page >= formPages.length)) fields.push(unreadField(f, 'page_missing', 'page_missing'));
   const order = new Map(schema.fields.map((f, i) => [f.name, i]));
   fields.sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
   clock.ms.score += performance.now() - scoreStarted;
@@ -261,7 +262,8 @@ async function extractForm(
   };
 }
 
-/** A field that was not read at all (its page is missing, or does not fit the layout): no value, no box. */
-function unreadField(f: FieldSpec, status: 'missing' | 'review', ...reasons: ReasonCode[]): FieldResult {
+/** A field that was not read at all (its page is missing, does not fit the layout, or its box is off the page): no value, no box. */
+function unreadField(f: FieldSpec, cause: UnreadCause, ...reasons: ReasonCode[]): FieldResult {
+  const status = unreadStatus(cause, f.required ?? false);
   return { name: f.name, type: f.type, page: f.page, value: null, raw: null, status, confidence: 0, reasons, box: null, source: 'none', scores: {} };
 }
