@@ -13,21 +13,10 @@ export interface CliRun {
   stderr: string;
 }
 
-/** Run the real command line (TypeScript sources through tsx) in a child process. */
-export function runCli(args: readonly string[], options: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): Promise<CliRun> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ['--import', TSX_LOADER, path.join(REPO, 'src/cli/main.ts'), ...args], {
-      cwd: options.cwd ?? REPO,
-      env: { ...process.env, ...options.env },
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d) => (stdout += d));
-    child.stderr.on('data', (d) => (stderr += d));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
+/** Run the real command line (TypeScript sources through tsx) in a child process, and wait for it to end. */
+export async function runCli(args: readonly string[], options: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): Promise<CliRun> {
+  const { code, stdout, stderr } = await startCli(args, options).done;
+  return { code, stdout, stderr };
 }
 
 export interface StartedCli {
@@ -48,8 +37,9 @@ export function startCli(args: readonly string[], options: { cwd?: string; env?:
   let stderr = '';
   child.stdout.on('data', (d) => (stdout += d));
   child.stderr.on('data', (d) => (stderr += d));
-  const done = new Promise<CliRun & { signal: NodeJS.Signals | null }>((resolve) =>
-    child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr })),
-  );
+  const done = new Promise<CliRun & { signal: NodeJS.Signals | null }>((resolve, reject) => {
+    child.on('error', reject);
+    child.on('close', (code, signal) => resolve({ code, signal, stdout, stderr }));
+  });
   return { child, stderr: () => stderr, done };
 }
