@@ -20,6 +20,7 @@ import onnx
 import torch
 
 from evaluate import load_checkpoint
+from onnx_save import save_with_metadata
 from model import CLASS_NAMES, INPUT_H, INPUT_W, STRIDE, ExportWrapper
 from pages import DataError, fail
 
@@ -57,14 +58,7 @@ def export(checkpoint: str, out: str, operating_threshold: float, extra: dict[st
         "architecture": "QuireNet (formglean): single-stage anchor-free, one stride-4 grid",
         **extra,
     }
-    del model.metadata_props[:]
-    for key, value in meta.items():
-        entry = model.metadata_props.add()
-        entry.key, entry.value = key, value
-    model.producer_name = "formglean training/export.py"
-    onnx.checker.check_model(model)
-    onnx.save(model, tmp)
-    os.replace(tmp, out)
+    save_with_metadata(model, meta, "formglean training/export.py", tmp, out)
 
 
 def main(argv: list[str]) -> None:

@@ -22,6 +22,7 @@ import torch  # noqa: E402
 
 from cells import CLASS_NAMES, DARK_PERCENTILE, INPUT, MIN_CONTRAST, PAPER_PERCENTILE  # noqa: E402
 from model import DigitCellCNN, Softmaxed  # noqa: E402
+from onnx_save import save_with_metadata  # noqa: E402
 
 OPSET = 13
 
@@ -66,14 +67,7 @@ def main(argv: list[str]) -> None:
         with open(args.eval) as fh:
             ev = json.load(fh)
         meta["test_split_accuracy"] = str(ev["augmented_cells"]["accuracy"])
-    del model.metadata_props[:]
-    for k, v in meta.items():
-        e = model.metadata_props.add()
-        e.key, e.value = k, v
-    model.producer_name = "formglean training/digits/export.py"
-    onnx.checker.check_model(model)
-    onnx.save(model, tmp)
-    os.replace(tmp, args.out)
+    save_with_metadata(model, meta, "formglean training/digits/export.py", tmp, args.out)
     print(f"wrote {args.out} ({os.path.getsize(args.out)} bytes)")
 
 
