@@ -8,6 +8,7 @@ import { formatDetectorEval } from '../eval/detection-table.js';
 import { prPlotPng } from '../eval/pr-plot.js';
 import { writeFileAtomic, writeJsonAtomic } from '../io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
+import { optionalWholeNumber } from './whole-number.js';
 
 interface EvalOptions {
   model: string;
@@ -30,7 +31,7 @@ export function registerDetectorCommand(program: Command): void {
     .option('--threads <n>', 'onnxruntime intra-op threads (default: onnxruntime\'s choice)')
     .action(async (opts: EvalOptions) => {
       const scoreThreshold = opts.scoreThreshold === undefined ? undefined : fraction('--score-threshold', opts.scoreThreshold);
-      const intraOpThreads = opts.threads === undefined ? undefined : positiveInt('--threads', opts.threads);
+      const intraOpThreads = optionalWholeNumber('--threads', opts.threads);
       const det = await loadDetector(opts.model, { intraOpThreads });
       const data = await loadCocoDataset(opts.data);
       const report = await evaluateDetector(det, data, {
@@ -56,8 +57,3 @@ function fraction(option: string, text: string): number {
   return v;
 }
 
-function positiveInt(option: string, text: string): number {
-  const v = Number(text);
-  if (!Number.isInteger(v) || v < 1) throw configError(undefined, `${option} expects a positive whole number, got "${text}"`);
-  return v;
-}

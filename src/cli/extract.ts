@@ -14,6 +14,7 @@ import type { LoadedSchema } from '../schema/load.js';
 import type { Detector } from '../detect/types.js';
 import type { BatchSummary } from '../results/summary.js';
 import { BatchProgress, type ProgressMode } from './progress.js';
+import { optionalWholeNumber } from './whole-number.js';
 
 interface ExtractCliOptions {
   schema: string[];
@@ -33,13 +34,6 @@ interface ExtractCliOptions {
 
 /** Exit status of a run stopped by a signal: 128 + the signal's number, as POSIX shells report it (common practice). */
 const SIGNAL_EXIT: Record<'SIGINT' | 'SIGTERM', number> = { SIGINT: 130, SIGTERM: 143 };
-
-function wholeNumber(option: string, raw: string | undefined): number | undefined {
-  if (raw === undefined) return undefined;
-  const n = Number(raw);
-  if (!Number.isInteger(n) || n < 1) throw configError(undefined, `${option}: expected a whole number >= 1 but received "${raw}"`);
-  return n;
-}
 
 /**
  * Ctrl-C (or SIGTERM) once: no new input starts, the ones in progress finish, the index and the review queue are
@@ -137,8 +131,8 @@ export function registerExtractCommand(program: Command): void {
     .option('--quiet', 'print only the summary')
     .option('--json-log', 'progress as one JSON object per event on stderr (never field values)')
     .action(async (inputs: string[], opts: ExtractCliOptions) => {
-      const threads = wholeNumber('--threads', opts.threads);
-      const workers = wholeNumber('--workers', opts.workers) ?? defaultWorkers();
+      const threads = optionalWholeNumber('--threads', opts.threads);
+      const workers = optionalWholeNumber('--workers', opts.workers) ?? defaultWorkers();
       if (opts.quiet && opts.jsonLog) throw configError(undefined, 'extract: --quiet and --json-log cannot be given together');
       const outStat = await stat(opts.out).catch(() => null);
       const schemas = await loadSchemasChecked(opts.schema, 'extract');

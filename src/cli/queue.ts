@@ -13,17 +13,12 @@ import { queueStatus, retrySetAside } from '../queue/status.js';
 import { submitBatch } from '../queue/submit.js';
 import { recordedPath } from '../results/recorded-path.js';
 import { checkSchemasAgainstDetector, collect, loadSchemasChecked, readingOptions, summaryText } from './extract.js';
+import { optionalWholeNumber, wholeNumber } from './whole-number.js';
 
 interface RedisCliOptions {
   redis?: string;
   redisCa?: string;
   queue: string;
-}
-
-function wholeNumber(flag: string, text: string, min: number): number {
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < min) throw configError(undefined, `${flag}: expected a whole number >= ${min} but received "${text}"`);
-  return n;
 }
 
 /** The options every queue command shares: where Redis is, how to trust its TLS certificate, which queue. */
@@ -118,7 +113,7 @@ export function registerQueueCommand(program: Command): void {
     const concurrency = wholeNumber('--concurrency', opts.concurrency, 1);
     // 5 s at least: the lock is renewed at half its time, and a page can hold the event loop for a second or two.
     const lockSeconds = wholeNumber('--lock-seconds', opts.lockSeconds, 5);
-    const threads = opts.threads === undefined ? undefined : wholeNumber('--threads', opts.threads, 1);
+    const threads = optionalWholeNumber('--threads', opts.threads);
     const { target: t, name } = target(opts);
     const resources = new WorkerResources({ schemas: opts.schema, models: opts.model, digitModels: opts.digitModel, threads });
     await (await connect()).masked(t, async () => {
