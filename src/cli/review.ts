@@ -8,7 +8,6 @@ import { reasonsMarkdown, reasonsText } from '../review/reasons-text.js';
 import { readResultsFolder } from '../review/result-store.js';
 import { reviewStatus, type ReviewStatus } from '../review/status.js';
 import { formatTable } from '../review/text-table.js';
-import { isPending } from '../review/pending.js';
 
 function printApplyReport(queue: string, r: ApplyReport): void {
   const applied = r.corrected + r.confirmed;
@@ -39,6 +38,14 @@ function statusText(s: ReviewStatus): string {
     out.push(formatTable(['document still waiting', 'layout', ...HEAD], waiting.map((r) => [r.document, r.layout, ...HEAD.map((k) => r[k])])));
     out.push('');
   }
+  if (s.layoutQuestions.length > 0) {
+    out.push(`document(s) of unknown layout, waiting for a person to say which form they are: ${s.layoutQuestions.join(', ')}`);
+    out.push('');
+  }
+  for (const d of s.setAside) {
+    out.push(d.schema !== undefined ? `${d.document}: set aside as form ${d.schema}; read it again with that schema` : `${d.document}: set aside as none of the forms`);
+  }
+  if (s.setAside.length > 0) out.push('');
   const docs = s.byLayout.reduce((n, l) => n + l.documents, 0);
   out.push(`total: ${s.total.pending} pending, ${s.total.corrected} corrected, ${s.total.confirmed} confirmed in ${docs} document(s)`);
   return out.join('\n') + '\n';
@@ -93,8 +100,7 @@ export function registerReviewCommand(program: Command): void {
     .action(async (opts: { results: string }) => {
       const folder = await readResultsFolder(opts.results);
       const results = folder.documents.map((d) => d.result);
-      await writeReviewQueue(opts.results, results);
-      const rows = results.reduce((n, r) => n + r.fields.filter((f) => isPending(f.status)).length, 0);
+      const rows = await writeReviewQueue(opts.results, results);
       process.stdout.write(`${printable(queuePath(opts.results))}: ${rows} row(s) from ${results.length} document(s)\n`);
     });
 

@@ -231,11 +231,15 @@ async function extractForm(
   await settleScripts(read.map((r) => r.outcome));
   // Scored once the whole form is read: each OCR field's confidence depends on how the others read.
   const legibility = legibilityFactors(read.map((r) => r.outcome));
+  const heldBack: string[] = [];
   for (const [i, { lf, outcome, toSource, alignment }] of read.entries()) {
     const field = buildFieldResult(lf, outcome, schema.defaults.reviewThreshold, toSource, legibility[i], alignment);
     if (choice.status === 'unknown_layout') {
       field.reasons.push('unknown_layout');
-      field.status = statusInUnknownLayout(field.status);
+      const held = statusInUnknownLayout(field.status);
+      // Kept so that a reviewer's "yes, it is this form" gives these fields back their own status.
+      if (held !== field.status) heldBack.push(field.name);
+      field.status = held;
     }
     fields.push(field);
   }
@@ -252,7 +256,7 @@ async function extractForm(
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
     ...(candidates > 1 || choice.status === 'unknown_layout'
-      ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates } }
+      ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates, ...(heldBack.length ? { heldBack } : {}) } }
       : {}),
     createdAt: new Date().toISOString(),
     pages,

@@ -103,17 +103,41 @@ export type PageResult = z.infer<typeof PageResult>;
 
 export const Identified = z.object({ id: z.string(), path: z.string(), sha256: z.string() });
 
+/**
+ * What a reviewer said of a document whose layout was unknown: it is the form it was read as (confirmed), it is
+ * another of the given forms (other_form, naming it: read it again with that schema), or none of them (not_a_form).
+ */
+export const LayoutDecision = z.enum(['confirmed', 'other_form', 'not_a_form']);
+export type LayoutDecision = z.infer<typeof LayoutDecision>;
+
+export const LayoutReview = z.object({
+  decision: LayoutDecision,
+  /** The form named by the reviewer, for other_form. */
+  schema: z.string().optional(),
+  reviewer: z.string(),
+  at: z.string(),
+  note: z.string().optional(),
+});
+export type LayoutReview = z.infer<typeof LayoutReview>;
+
 export const DocumentResult = z.object({
   format: z.literal(RESULT_FORMAT),
   document: Identified,
   schema: z.object({ name: z.string(), version: z.string(), path: z.string(), sha256: z.string() }),
   model: Identified,
-  /** Which schema the document was assigned to when several were given, with every candidate's score. */
+  /**
+   * Which schema the document was assigned to when several were given, with every candidate's score; for a layout
+   * found unknown, the fields held back for it and a person's answer (which form it is).
+   */
   layout: z
     .object({
       status: z.enum(['assigned', 'unknown_layout']),
       score: z.number(),
       candidates: z.array(z.object({ schema: z.string(), score: z.number() })),
+      /** Fields that read well enough to be accepted but were held for review because the layout was unknown. */
+      heldBack: z.array(z.string()).optional(),
+      /** A person's answer to "which form is this?" for a document of unknown layout (review/layout-answer.ts). */
+      review: LayoutReview.optional(),
     })
     .optional(),
   createdAt: z.string(),

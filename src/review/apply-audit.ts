@@ -1,6 +1,8 @@
 import type { FieldUpdate, RowRef } from './apply-plan.js';
 import type { AuditEntry } from './audit.js';
 import type { StoredResult } from './result-store.js';
+import type { DocumentResult } from '../result/document.js';
+import { LAYOUT_ROW_FIELD } from './layout-question.js';
 
 export function updatesByDocument(updates: readonly FieldUpdate[]): Map<string, FieldUpdate[]> {
   const out = new Map<string, FieldUpdate[]>();
@@ -25,6 +27,14 @@ export function recoveredEntries(
   const logged = new Set(audit.map((e) => `${e.rowId}\0${e.at}`));
   const out: AuditEntry[] = [];
   for (const ref of applied) {
+    if (ref.field === LAYOUT_ROW_FIELD) {
+      const entry = recoveredLayoutEntry(ref, documents.get(ref.document)?.result, queue);
+      if (entry && !logged.has(`${ref.rowId}\0${entry.at}`)) {
+        out.push(entry);
+        logged.add(`${ref.rowId}\0${entry.at}`);
+      }
+      continue;
+    }
     const field = documents.get(ref.document)?.result.fields.find((f) => f.name === ref.field);
     const review = field?.review;
     if (!field || !review || logged.has(`${ref.rowId}\0${review.at}`)) continue;
@@ -48,4 +58,27 @@ export function recoveredEntries(
     logged.add(`${ref.rowId}\0${review.at}`);
   }
   return out;
+}
+
+/** The audit entry of a layout answer the document holds, rebuilt from its layout review block. */
+function recoveredLayoutEntry(ref: RowRef, doc: DocumentResult | undefined, queue: string): AuditEntry | null {
+  const review = doc?.layout?.review;
+  if (!doc || !review) return null;
+  const status = review.decision === 'confirmed' ? 'confirmed' : 'corrected';
+  return {
+    at: review.at,
+    reviewer: review.reviewer,
+    action: status,
+    document: ref.document,
+    field: LAYOUT_ROW_FIELD,
+    rowId: ref.rowId,
+    previousValue: doc.schema.name,
+    previousStatus: 'review',
+    value: review.decision === 'not_a_form' ? null : (review.schema ?? doc.schema.name),
+    status,
+    ...(review.note !== undefined ? { note: review.note } : {}),
+    queue,
+    line: ref.line,
+    recovered: true,
+  };
 }

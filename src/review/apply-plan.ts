@@ -4,6 +4,7 @@ import { isEmptyCorrection, readConfirm, typedCellProblem } from './answers.js';
 import type { AuditEntry } from './audit.js';
 import type { FieldTyping } from './field-options.js';
 import { isPending } from './pending.js';
+import { LAYOUT_ROW_FIELD, parseLayoutAnswer } from './layout-question.js';
 import type { QueueEntry } from './queue-read.js';
 import { resultFingerprint } from './result-fingerprint.js';
 import { assignRowIds } from './row-id.js';
@@ -167,27 +168,66 @@ function decideAnswer(input: PlanInput, a: Answer, doc: PlanDocument, field: Fie
   }
 
   if (action !== 'reverted' && field.status === status && sameValue(field.value, value) && field.review?.note === a.note) return { already: true };
+  const entry = auditEntry(input, a, { action, document: docId, field: field.name, previousValue: field.value, previousStatus: field.status, value, status });
+  return { update: { extra, entry } };
+}
+
+/** The audit entry of one answer: what changed, plus who, when, and where the answer came from. */
+function auditEntry(
+  input: PlanInput,
+  a: Answer,
+  change: Pick<AuditEntry, 'action' | 'document' | 'field' | 'previousValue' | 'previousStatus' | 'value' | 'status'>,
+): AuditEntry {
+  // Keys in the order audit.jsonl has always written them.
   return {
-    update: {
-      extra,
-      entry: {
-        at: input.at,
-        reviewer: input.reviewer,
-        action,
-        document: docId,
-        field: field.name,
-        rowId: a.rowId,
-        previousValue: field.value,
-        previousStatus: field.status,
-        value,
-        status,
-        ...(a.note !== undefined ? { note: a.note } : {}),
-        queue: input.queue,
-        line: a.line,
-        via: input.via,
-      },
-    },
+    at: input.at,
+    reviewer: input.reviewer,
+    action: change.action,
+    document: change.document,
+    field: change.field,
+    rowId: a.rowId,
+    previousValue: change.previousValue,
+    previousStatus: change.previousStatus,
+    value: change.value,
+    status: change.status,
+    ...(a.note !== undefined ? { note: a.note } : {}),
+    queue: input.queue,
+    line: a.line,
+    via: input.via,
   };
+}
+
+/** What one answer to a layout row does to its document (layout-question.ts). Pure. */
+function decideLayoutAnswer(input: PlanInput, a: Answer, doc: PlanDocument): Decision {
+  const result = doc.result;
+  const docId = result.document.id;
+  const held = result.layout?.review;
+  const asValue = (r: { decision: string; schema?: string }) => (r.decision === 'not_a_form' ? null : (r.schema ?? result.schema.name));
+  const asStatus = (r: { decision: string }) => (r.decision === 'confirmed' ? 'confirmed' : 'corrected');
+  let value: FieldValue;
+  let previousValue: FieldValue;
+  let status: FieldResult['status'];
+  let previousStatus: FieldResult['status'];
+  let action: AuditEntry['action'];
+  if (a.action.kind === 'revert') {
+    if (held === undefined) return { problem: `the layout of document "${docId}" holds no review answer to undo` };
+    previousValue = asValue(held);
+    previousStatus = asStatus(held);
+    value = result.schema.name;
+    status = 'review';
+    action = 'reverted';
+  } else {
+    const answer = parseLayoutAnswer(result, a.action);
+    if ('problem' in answer) return { problem: answer.problem };
+    if (held !== undefined && held.decision === answer.decision && held.schema === answer.schema && held.note === a.note) return { already: true };
+    previousValue = held ? asValue(held) : result.schema.name;
+    previousStatus = held ? asStatus(held) : 'review';
+    value = asValue(answer);
+    status = asStatus(answer);
+    action = status;
+  }
+  const entry = auditEntry(input, a, { action, document: docId, field: LAYOUT_ROW_FIELD, previousValue, previousStatus, value, status });
+  return { update: { extra: undefined, entry } };
 }
 
 /**
@@ -196,11 +236,13 @@ function decideAnswer(input: PlanInput, a: Answer, doc: PlanDocument, field: Fie
  * changed since the queue was written, or its correction fails the field type's checks.
  */
 export function planApply(input: PlanInput): ApplyPlan {
-  const byRowId = new Map<string, { doc: PlanDocument; field: FieldResult }>();
+  const byRowId = new Map<string, { doc: PlanDocument; field: FieldResult | null }>();
   const ids = assignRowIds(input.documents.map((d) => d.result));
   for (const doc of input.documents) {
     const fieldIds = ids.get(doc.result.document.id)!;
     for (const field of doc.result.fields) byRowId.set(fieldIds.get(field.name)!, { doc, field });
+    const layoutId = fieldIds.get(LAYOUT_ROW_FIELD);
+    if (layoutId !== undefined) byRowId.set(layoutId, { doc, field: null });
   }
   const fingerprints = new Map<PlanDocument, string>();
   const answeredAt = new Map<string, number>();
@@ -222,12 +264,13 @@ export function planApply(input: PlanInput): ApplyPlan {
     }
     const { doc, field } = target;
     const docId = doc.result.document.id;
+    const fieldName = field?.name ?? LAYOUT_ROW_FIELD;
     if (a.document !== undefined && a.document !== docId) {
       refuse(`row id ${rowId} belongs to document "${docId}", the row names "${a.document}"`);
       continue;
     }
-    if (a.field !== undefined && a.field !== field.name) {
-      refuse(`row id ${rowId} belongs to field "${field.name}", the row names "${a.field}"`);
+    if (a.field !== undefined && a.field !== fieldName) {
+      refuse(`row id ${rowId} belongs to field "${fieldName}", the row names "${a.field}"`);
       continue;
     }
     const earlier = answeredAt.get(rowId);
@@ -245,9 +288,9 @@ export function planApply(input: PlanInput): ApplyPlan {
       refuse(`the result of document "${docId}" changed since this queue was written (extracted again?); make a new queue with: ${newQueueCommand(input.resultsDir)}`);
       continue;
     }
-    const d = decideAnswer(input, a, doc, field);
+    const d = field === null ? decideLayoutAnswer(input, a, doc) : decideAnswer(input, a, doc, field);
     if ('problem' in d) refuse(d.problem);
-    else if ('already' in d) plan.alreadyApplied.push({ line, rowId, document: docId, field: field.name });
+    else if ('already' in d) plan.alreadyApplied.push({ line, rowId, document: docId, field: fieldName });
     else plan.updates.push(d.update);
   }
   return plan;

@@ -8,6 +8,7 @@ import { cropGray, grayToPng, sharpFromGray } from '../image/raster.js';
 import type { DocumentResult, ResultBox } from '../result/document.js';
 import { contextCropName, CROPS_DIR, cropName, reviewDir } from '../results/review-layout.js';
 import { isPending } from './pending.js';
+import { hasLayoutRow, LAYOUT_ROW_FIELD } from './layout-question.js';
 import { reviewRowId } from './row-id.js';
 
 /** Pixels added around the field box in the field crop: the schema's default reading padding (4 px). */
@@ -52,6 +53,16 @@ async function contextPng(page: GrayImage, box: Box): Promise<Buffer> {
     .toBuffer();
 }
 
+/** Width of the page preview: enough to read a form's title and headings, small enough for a queue (common practice). */
+const PREVIEW_WIDTH = 1000;
+
+async function pagePreviewPng(page: GrayImage): Promise<Buffer> {
+  return sharpFromGray(page)
+    .resize({ width: Math.min(PREVIEW_WIDTH, page.width) })
+    .png()
+    .toBuffer();
+}
+
 function usableBox(box: ResultBox | null, pages: readonly GrayImage[]): box is ResultBox {
   if (box === null || box.page >= pages.length) return false;
   const page = pages[box.page];
@@ -66,6 +77,11 @@ function usableBox(box: ResultBox | null, pages: readonly GrayImage[]): box is R
  */
 export async function writeReviewCrops(outDir: string, result: DocumentResult, pages: GrayImage[]): Promise<void> {
   const dir = reviewDir(outDir);
+  if (hasLayoutRow(result) && pages.length > 0) {
+    // The layout row's crop is the whole first page: the reviewer tells the form by its look.
+    const id = reviewRowId(result.document.sha256, LAYOUT_ROW_FIELD);
+    await writeFileAtomic(path.join(dir, cropName(id)), await pagePreviewPng(pages[0]));
+  }
   for (const field of result.fields) {
     if (!isPending(field.status) || !usableBox(field.box, pages)) continue;
     const page = pages[field.box.page];

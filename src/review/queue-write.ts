@@ -13,12 +13,38 @@ import { QUEUE_COLUMNS, REASON_SEPARATOR, REVIEWER_COLUMNS } from './queue-colum
 import { parseReviewQueue } from './queue-read.js';
 import { resultFingerprint } from './result-fingerprint.js';
 import { assignRowIds, reviewRowId } from './row-id.js';
+import { candidatesCell, LAYOUT_ROW_FIELD, LAYOUT_ROW_TYPE, queueMode } from './layout-question.js';
 
 /** Crop paths of a row, relative to queue.csv. */
 export type CropLookup = (rowId: string, plainRowId: string) => { crop: string; context: string };
 
+/** The one row of a document whose layout is unknown: which form is it? The first page is its crop. */
+function layoutRow(doc: DocumentResult, hash: string, rowId: string, crops: CropLookup): QueueRow {
+  const c = crops(rowId, reviewRowId(doc.document.sha256, LAYOUT_ROW_FIELD));
+  return {
+    row_id: rowId,
+    document: doc.document.id,
+    result_hash: hash,
+    page: '1',
+    field: LAYOUT_ROW_FIELD,
+    type: LAYOUT_ROW_TYPE,
+    status: 'review',
+    value: doc.schema.name,
+    raw: candidatesCell(doc),
+    confidence: confidenceToCell(doc.layout?.score ?? 0),
+    reasons: 'unknown_layout',
+    crop: c.crop,
+    context_crop: c.context,
+    correction: '',
+    confirm: '',
+    note: '',
+  };
+}
+
 /**
- * One row per field still waiting for review, documents in id order, fields in schema order.
+ * One row per field still waiting for review, documents in id order, fields in schema order; a document of
+ * unknown layout has one row instead (layout-question.ts) until a person says which form it is, and a document
+ * set aside as another form or no form has none.
  * Pure: crop paths come from `crops`.
  */
 export function buildQueueRows(results: readonly DocumentResult[], crops: CropLookup): QueueRow[] {
@@ -27,6 +53,12 @@ export function buildQueueRows(results: readonly DocumentResult[], crops: CropLo
   const rows: QueueRow[] = [];
   for (const doc of sorted) {
     const hash = resultFingerprint(doc);
+    const mode = queueMode(doc);
+    if (mode === 'layout') {
+      rows.push(layoutRow(doc, hash, ids.get(doc.document.id)!.get(LAYOUT_ROW_FIELD)!, crops));
+      continue;
+    }
+    if (mode === 'none') continue;
     for (const f of doc.fields) {
       if (!isPending(f.status)) continue;
       const rowId = ids.get(doc.document.id)!.get(f.name)!;
@@ -88,8 +120,9 @@ function typedAnswers(file: string, bytes: Buffer): Map<string, Pick<QueueRow, '
  * Write DIR/review/queue.csv for the given results. When a queue is already there with answers typed in, answers
  * for unchanged rows are carried over; if any answer cannot be carried (its document was extracted again, or the
  * field no longer needs review), the old file is first kept as queue.<time>.csv so no typed work is lost.
+ * Returns the number of rows written.
  */
-export async function writeReviewQueue(outDir: string, results: DocumentResult[]): Promise<void> {
+export async function writeReviewQueue(outDir: string, results: DocumentResult[]): Promise<number> {
   const file = queuePath(outDir);
   const present = await listCrops(outDir);
   const rows = buildQueueRows(results, (_id, plain) => ({
@@ -129,4 +162,5 @@ export async function writeReviewQueue(outDir: string, results: DocumentResult[]
     }
   }
   await writeFileAtomic(file, queueCsv(rows));
+  return rows.length;
 }

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { DocumentResult } from '../result/document.js';
+import { hasLayoutRow, LAYOUT_ROW_FIELD } from './layout-question.js';
 
 /**
  * Stable review-queue row id: a hash of the document's content hash and the field name, so the same field of
@@ -16,7 +17,7 @@ export function reviewRowId(documentSha256: string, fieldName: string, documentI
  * Row ids for every field of every document, deterministic for a given set of documents: documents are taken
  * in order of their id; the first document with a given content hash gets the plain id, later copies of the
  * same content get ids that also hash their document id.
- * Returns documentId -> fieldName -> rowId.
+ * Returns documentId -> fieldName -> rowId (the layout row under LAYOUT_ROW_FIELD).
  */
 export function assignRowIds(results: readonly DocumentResult[]): Map<string, Map<string, string>> {
   const sorted = [...results].sort((a, b) => (a.document.id < b.document.id ? -1 : a.document.id > b.document.id ? 1 : 0));
@@ -28,6 +29,8 @@ export function assignRowIds(results: readonly DocumentResult[]): Map<string, Ma
     const copy = owner !== undefined && owner !== r.document.id;
     const ids = new Map<string, string>();
     for (const f of r.fields) ids.set(f.name, reviewRowId(r.document.sha256, f.name, copy ? r.document.id : undefined));
+    // A document of unknown layout also has its "which form is this?" row.
+    if (hasLayoutRow(r)) ids.set(LAYOUT_ROW_FIELD, reviewRowId(r.document.sha256, LAYOUT_ROW_FIELD, copy ? r.document.id : undefined));
     out.set(r.document.id, ids);
   }
   return out;

@@ -1,5 +1,6 @@
 import type { DocumentResult } from '../result/document.js';
 import { isPending } from './pending.js';
+import { queueMode } from './layout-question.js';
 
 export interface ReviewCounts {
   pending: number;
@@ -22,6 +23,10 @@ export interface ReviewStatus {
   byLayout: LayoutStatus[];
   /** Documents with at least one field that went to review, in id order. */
   byDocument: ({ document: string; layout: string } & ReviewCounts)[];
+  /** Documents of unknown layout whose one question (which form is this?) waits for a person; their fields are not counted. */
+  layoutQuestions: string[];
+  /** Documents a person said are another form (to read again with that schema) or none of the forms; their fields are not counted. */
+  setAside: { document: string; decision: 'other_form' | 'not_a_form'; schema?: string }[];
 }
 
 function zero(): ReviewCounts {
@@ -40,6 +45,8 @@ export function reviewStatus(results: readonly DocumentResult[]): ReviewStatus {
   const total = zero();
   const layouts = new Map<string, LayoutStatus & { byField: Map<string, ReviewCounts> }>();
   const byDocument: ReviewStatus['byDocument'] = [];
+  const layoutQuestions: string[] = [];
+  const setAside: ReviewStatus['setAside'] = [];
   const sorted = [...results].sort((a, b) => (a.document.id < b.document.id ? -1 : a.document.id > b.document.id ? 1 : 0));
   for (const r of sorted) {
     const name = r.schema.name;
@@ -49,6 +56,16 @@ export function reviewStatus(results: readonly DocumentResult[]): ReviewStatus {
       layouts.set(name, layout);
     }
     layout.documents++;
+    const mode = queueMode(r);
+    if (mode === 'layout') {
+      layoutQuestions.push(r.document.id);
+      continue;
+    }
+    const review = r.layout?.review;
+    if (mode === 'none' && review !== undefined && review.decision !== 'confirmed') {
+      setAside.push({ document: r.document.id, decision: review.decision, ...(review.schema !== undefined ? { schema: review.schema } : {}) });
+      continue;
+    }
     const d = zero();
     for (const f of r.fields) {
       const key: keyof ReviewCounts | undefined = isPending(f.status)
@@ -73,5 +90,5 @@ export function reviewStatus(results: readonly DocumentResult[]): ReviewStatus {
     return { ...l, fields: names.map((field) => ({ field, ...byField.get(field)! })) };
   });
   byLayout.sort((a, b) => (a.layout < b.layout ? -1 : a.layout > b.layout ? 1 : 0));
-  return { total, byLayout, byDocument };
+  return { total, byLayout, byDocument, layoutQuestions, setAside };
 }

@@ -10,6 +10,7 @@ import { readReviewQueue } from '../queue-read.js';
 import { resultFingerprint } from '../result-fingerprint.js';
 import { readResultsFolder, type StoredResult } from '../result-store.js';
 import { assignRowIds } from '../row-id.js';
+import { LAYOUT_ROW_FIELD, LAYOUT_ROW_TYPE, layoutAcceptedInput } from '../layout-question.js';
 
 /** A reason code as the page shows it: the code, and in plain words what it means and what to check. */
 export interface PageReason {
@@ -82,6 +83,8 @@ export async function pageRows(resultsDir: string, entries: readonly QueueEntry[
     const fingerprint = () => (hash ??= resultFingerprint(d.raw));
     const fieldIds = ids.get(d.result.document.id)!;
     for (const f of d.result.fields) byRow.set(fieldIds.get(f.name)!, { doc: d.result, field: f, hash: fingerprint });
+    const layoutId = fieldIds.get(LAYOUT_ROW_FIELD);
+    if (layoutId !== undefined) byRow.set(layoutId, { doc: d.result, field: layoutAsField(d.result), hash: fingerprint });
   }
   const options = new FieldOptionsSource(resultsDir);
   const command = newQueueCommand(resultsDir);
@@ -93,7 +96,8 @@ export async function pageRows(resultsDir: string, entries: readonly QueueEntry[
     let stale: string | null = null;
     if (!hit) stale = 'No document in the results folder has this field any more.';
     else if ((cells.result_hash ?? '').trim() !== hit.hash()) stale = `The document was extracted again since this queue was written; make a new queue with: ${command}`;
-    if (hit) {
+    if (hit?.field.name === LAYOUT_ROW_FIELD) accepts = layoutAcceptedInput(hit.doc);
+    else if (hit) {
       const typing = await options.typing(hit.doc, hit.field.name, hit.field.type);
       accepts = 'error' in typing ? null : typing.type.acceptedInput(typing.options);
     }
@@ -127,6 +131,25 @@ export async function pageRows(resultsDir: string, entries: readonly QueueEntry[
     });
   }
   return rows;
+}
+
+/** A document's layout question seen as a field, so the page shows where its answer stands like any other row's. */
+function layoutAsField(doc: DocumentResult): FieldResult {
+  const review = doc.layout?.review;
+  return {
+    name: LAYOUT_ROW_FIELD,
+    type: LAYOUT_ROW_TYPE,
+    page: 0,
+    value: review === undefined ? doc.schema.name : review.decision === 'not_a_form' ? null : (review.schema ?? doc.schema.name),
+    raw: null,
+    status: review === undefined ? 'review' : review.decision === 'confirmed' ? 'confirmed' : 'corrected',
+    confidence: doc.layout?.score ?? 0,
+    reasons: ['unknown_layout'],
+    box: null,
+    source: 'none',
+    scores: {},
+    ...(review ? { review: { previousValue: doc.schema.name, previousStatus: 'review' as const, reviewer: review.reviewer, at: review.at, ...(review.note !== undefined ? { note: review.note } : {}) } } : {}),
+  };
 }
 
 /** What the page posts for one row. */
