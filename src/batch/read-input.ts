@@ -12,6 +12,7 @@ import { failedLine, okLine, withRequestedId, type ResultsLine } from '../result
 import { writeReviewCrops } from '../review/crops.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { carryReviewedFields } from './carry-review.js';
+import { rereadAs } from '../review/layout-question.js';
 
 /** What reading any input needs: the same for every input of a run, and for every worker that serves it. */
 export interface ReadingSetup extends Omit<ExtractOptions, 'schema' | 'documentId' | 'recordedAs' | 'limits'> {
@@ -74,8 +75,16 @@ export async function readInput(job: InputJob, setup: ReadingSetup, claim: Claim
   const stages = emptyStageTimes();
   try {
     const { schemas, outDir, ...extract } = setup;
-    const forms = extractForms(job.file, { ...extract, schema: schemas, documentId: job.stem, recordedAs: job.recorded });
     const earlier = await earlierRecords(outDir, job.earlierJson);
+    // A person said this scan is another of the run's forms: it is read with that form's schema alone.
+    const named = rereadAs([...earlier.values()], schemas);
+    const forms = extractForms(job.file, {
+      ...extract,
+      schema: named ? [named.schema] : schemas,
+      ...(named ? { layoutFromReview: named.review } : {}),
+      documentId: job.stem,
+      recordedAs: job.recorded,
+    });
     for await (const { result: read, pages, stages: formStages } of forms) {
       addStageTimes(stages, formStages);
       const requested = read.document.id;

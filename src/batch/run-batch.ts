@@ -27,6 +27,7 @@ import { inThreadReader, type InputReader } from './input-reader.js';
 import { openWorkerPool } from './worker-pool.js';
 import { discoverInputs, documentIds } from './discover.js';
 import { IdClaims } from './id-claims.js';
+import { awaitsRereading } from '../review/layout-question.js';
 
 export interface BatchOptions {
   inputs: readonly string[];
@@ -114,7 +115,8 @@ async function reusable(outDir: string, own: readonly ResultsLine[], file: strin
     const records: DocumentResult[] = [];
     for (const l of ok) {
       const previous = await readResultsRecord(path.join(outDir, l.json as string));
-      if (!sameInputs(previous, sha, options)) return null;
+      // A record a person set aside as another form is read again, with that form's schema (batch/read-input.ts).
+      if (!sameInputs(previous, sha, options) || awaitsRereading(previous)) return null;
       records.push(previous);
     }
     return records;

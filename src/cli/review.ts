@@ -43,7 +43,11 @@ function statusText(s: ReviewStatus): string {
     out.push('');
   }
   for (const d of s.setAside) {
-    out.push(d.schema !== undefined ? `${d.document}: set aside as form ${d.schema}; read it again with that schema` : `${d.document}: set aside as none of the forms`);
+    out.push(
+      d.schema !== undefined
+        ? `${d.document}: set aside as form ${d.schema}; extract --resume with that schema among --schema reads it again as such`
+        : `${d.document}: set aside as none of the forms`,
+    );
   }
   if (s.setAside.length > 0) out.push('');
   const docs = s.byLayout.reduce((n, l) => n + l.documents, 0);

@@ -29,7 +29,7 @@ export const REASONS = {
   unknown_layout: {
     effect: 'review',
     meaning: 'The page fits none of the given schemas well; fields were read where the best one puts them.',
-    check: 'Which form the page is: the queue asks this once per document (row "(layout)"); confirm the form named, type another form\'s name (then extract it again with that schema), or (none).',
+    check: 'Which form the page is: the queue asks this once per document (row "(layout)"); confirm the form named, type another form\'s name (extract --resume then reads it with that schema), or (none).',
   },
   page_not_aligned: {
     effect: 'review',

@@ -13,7 +13,7 @@ import { invertAffine, type Affine } from '../image/geometry.js';
 import type { NormalizedPage } from '../page/normalize.js';
 import { normalizePage } from '../page/normalize.js';
 import type { GrayImage } from '../image/raster.js';
-import type { DocumentResult, FieldResult, PageResult } from '../result/document.js';
+import type { DocumentResult, FieldResult, LayoutReview, PageResult } from '../result/document.js';
 import { countStatuses, RESULT_FORMAT } from '../result/document.js';
 import { statusInUnknownLayout, unreadStatus, type UnreadCause } from '../fields/scoring.js';
 import type { FieldSpec } from '../schema/definition.js';
@@ -61,6 +61,11 @@ export interface ExtractOptions {
   dropout?: boolean;
   /** Digit reader for digit combs (src/read/digit-reader.ts); the caller opens and closes it. Absent: Tesseract alone. */
   digitReader?: DigitReader;
+  /**
+   * A person's answer that the document is the form of the one schema given (review/layout-question.ts): the layout
+   * is taken as assigned whatever its fit score, and the answer is kept in the record's layout block.
+   */
+  layoutFromReview?: LayoutReview;
 }
 
 export interface ExtractedDocument {
@@ -112,7 +117,9 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       const ocrBefore = sharedOcrEngine().busyMs;
       const head = await prepare(first, clock);
       const started = performance.now();
-      const choose = () => clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections));
+      const chosen = () => chooseLayout(schemas, head.normalized.image, head.detections);
+      const choose = () =>
+        clock.time('align', async () => (options.layoutFromReview ? { ...(await chosen()), status: 'assigned' as const } : chosen()));
       let choice = await choose();
       // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
       // chooses its layout again.
@@ -255,8 +262,16 @@ async function extractForm(
     document: { id: options.id, path: options.source, sha256: options.sha256 },
     schema: { name: schema.form.name, version: schema.form.version, path: loaded.path, sha256: loaded.sha256 },
     model: { id: detector.id, path: detector.path, sha256: detector.sha256 },
-    ...(candidates > 1 || choice.status === 'unknown_layout'
-      ? { layout: { status: choice.status, score: choice.score, candidates: choice.candidates, ...(heldBack.length ? { heldBack } : {}) } }
+    ...(candidates > 1 || choice.status === 'unknown_layout' || options.layoutFromReview
+      ? {
+          layout: {
+            status: choice.status,
+            score: choice.score,
+            candidates: choice.candidates,
+            ...(heldBack.length ? { heldBack } : {}),
+            ...(options.layoutFromReview ? { review: options.layoutFromReview } : {}),
+          },
+        }
       : {}),
     createdAt: new Date().toISOString(),
     pages,

@@ -16,8 +16,33 @@ export type QueueMode = 'layout' | 'fields' | 'none';
 
 export function queueMode(doc: DocumentResult): QueueMode {
   const layout = doc.layout;
-  if (layout?.review) return layout.review.decision === 'confirmed' ? 'fields' : 'none';
+  if (layout?.review) return layout.review.decision === 'confirmed' || readAsNamed(doc) ? 'fields' : 'none';
   return layout?.status === 'unknown_layout' ? 'layout' : 'fields';
+}
+
+/** A document a person said is another form, since read again with that form's schema. */
+function readAsNamed(doc: DocumentResult): boolean {
+  const review = doc.layout?.review;
+  return review?.decision === 'other_form' && review.schema === doc.schema.name;
+}
+
+/** A person said this document is another form, and it has not been read with that form's schema yet. */
+export function awaitsRereading(doc: DocumentResult): boolean {
+  return doc.layout?.review?.decision === 'other_form' && !readAsNamed(doc);
+}
+
+/**
+ * The schema an input is to be read with again, and the answer that says so: when its one earlier record was set
+ * aside as another form that is among the schemas of this run. A stack of several forms is read as usual.
+ */
+export function rereadAs<S extends { schema: { form: { name: string } } }>(
+  earlier: readonly DocumentResult[],
+  schemas: readonly S[],
+): { schema: S; review: NonNullable<NonNullable<DocumentResult['layout']>['review']> } | null {
+  if (earlier.length !== 1 || !awaitsRereading(earlier[0])) return null;
+  const review = earlier[0].layout!.review!;
+  const schema = schemas.find((s) => s.schema.form.name === review.schema);
+  return schema ? { schema, review } : null;
 }
 
 /** Whether the document has a layout row (asked now, or answered and open to undoing on the review page). */

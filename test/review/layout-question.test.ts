@@ -49,13 +49,14 @@ async function record(dir: string, id: string): Promise<DocumentResult> {
   return DocumentResult.parse(JSON.parse(await readFile(path.join(dir, `${id}.json`), 'utf8')));
 }
 
+const inputs = [path.join(repo, 'samples/marina-slip-typed.jpg'), path.join(repo, 'samples/clinic-intake-typed.png')];
+const runSchemas = async () => [await loadSchema(path.join(repo, 'schemas/clinic-intake.yaml')), await loadSchema(path.join(repo, 'schemas/garden-plot.yaml'))];
+
 beforeAll(async () => {
   extracted = await mkdtemp(path.join(tmpdir(), 'fg-layout-run-'));
   dirs.push(extracted);
-  const schemas = [await loadSchema(path.join(repo, 'schemas/clinic-intake.yaml')), await loadSchema(path.join(repo, 'schemas/garden-plot.yaml'))];
   const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-  const inputs = [path.join(repo, 'samples/marina-slip-typed.jpg'), path.join(repo, 'samples/clinic-intake-typed.png')];
-  const report = await extractBatch({ inputs, schemas, detector, outDir: extracted });
+  const report = await extractBatch({ inputs, schemas: await runSchemas(), detector, outDir: extracted });
   await detector.close();
   expect(report.lines.map((l) => l.error ?? 'ok')).toEqual(['ok', 'ok']);
 }, 240_000);
@@ -119,7 +120,29 @@ describe('a document of unknown layout in the review queue', () => {
     expect((await record(dir, 'marina-slip-typed')).layout?.review).toMatchObject({ decision: 'other_form', schema: other });
     const status = reviewStatus((await readResultsFolder(dir)).documents.map((d) => d.result));
     expect(status.setAside).toEqual([{ document: 'marina-slip-typed', decision: 'other_form', schema: other }]);
-  });
+
+    // extract --resume reads it again with the named form's schema alone, and keeps the unchanged clinic record.
+    const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
+    const reused: string[] = [];
+    const report = await extractBatch({
+      inputs,
+      schemas: await runSchemas(),
+      detector,
+      outDir: dir,
+      resume: true,
+      onInput: (e) => e.reused && reused.push(path.basename(e.file)),
+    });
+    await detector.close();
+    expect(report.lines.map((l) => l.error ?? 'ok')).toEqual(['ok', 'ok']);
+    expect(reused).toEqual(['clinic-intake-typed.png']);
+    const reread = await record(dir, 'marina-slip-typed');
+    expect(reread.schema.name).toBe(other);
+    expect(reread.layout).toMatchObject({ status: 'assigned', review: { decision: 'other_form', schema: other, reviewer: 'tester' } });
+    expect(reread.fields.every((f) => !f.reasons.includes('unknown_layout'))).toBe(true);
+    const rows2 = await queueRows(dir);
+    expect(rows2.filter((r) => r.document === 'marina-slip-typed').every((r) => r.field !== '(layout)')).toBe(true);
+    expect(reviewStatus((await readResultsFolder(dir)).documents.map((d) => d.result)).setAside).toEqual([]);
+  }, 240_000);
 
   it('confirmed, gives the held-back fields their own status back, and its doubtful fields come to the queue one by one; undoing asks again', async () => {
     const dir = await copyOfRun();
