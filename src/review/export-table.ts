@@ -4,6 +4,7 @@ import type { DocumentResult } from '../result/document.js';
 import { valueToCell } from './cell-value.js';
 import { guardCell } from './formula-guard.js';
 import { isPending } from './pending.js';
+import { queueMode } from './layout-question.js';
 
 /**
  * Columns about the record itself. Dotted names cannot clash with field names (schema field names are
@@ -47,11 +48,12 @@ export function recordTable(results: readonly DocumentResult[], options: { withS
 
 /**
  * One table per layout (schema name), layouts in name order: forms of different layouts have different fields, and
- * a same-named field of two forms may mean different things, so they never share a column. Pure.
+ * a same-named field of two forms may mean different things, so they never share a column. A document a person set
+ * aside as another form or as none of the forms is no record of the layout it was read as, and is left out. Pure.
  */
 export function recordTablesByLayout(results: readonly DocumentResult[], options: { withStatus?: boolean } = {}): Map<string, RecordTable> {
   const groups = new Map<string, DocumentResult[]>();
-  for (const r of results) groups.set(r.schema.name, [...(groups.get(r.schema.name) ?? []), r]);
+  for (const r of results.filter((x) => queueMode(x) !== 'none')) groups.set(r.schema.name, [...(groups.get(r.schema.name) ?? []), r]);
   const names = [...groups.keys()].sort();
   return new Map(names.map((n) => [n, recordTable(groups.get(n)!, options)]));
 }

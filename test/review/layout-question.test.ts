@@ -13,6 +13,7 @@ import { readAudit } from '../../src/review/audit.js';
 import { writeReviewQueue } from '../../src/review/queue-write.js';
 import { readResultsFolder } from '../../src/review/result-store.js';
 import { reviewStatus } from '../../src/review/status.js';
+import { recordTablesByLayout } from '../../src/review/export-table.js';
 
 /**
  * A scan of a form none of the given schemas describes: the marina's slip-rental page read with only the clinic's and
@@ -97,6 +98,9 @@ describe('a document of unknown layout in the review queue', () => {
     expect((await queueRows(dir)).some((r) => r.document === 'marina-slip-typed')).toBe(false);
     const status = reviewStatus((await readResultsFolder(dir)).documents.map((d) => d.result));
     expect(status.setAside).toEqual([{ document: 'marina-slip-typed', decision: 'not_a_form' }]);
+    // Nor is it exported as a record of the form it was read as.
+    const tables = recordTablesByLayout((await readResultsFolder(dir)).documents.map((d) => d.result));
+    expect([...tables.values()].flatMap((t) => t.rows.map((r) => r['document.id']))).toEqual(['clinic-intake-typed']);
     const audit = await readAudit(path.join(dir, 'review', 'audit.jsonl'));
     expect(audit).toHaveLength(1);
     expect(audit[0]).toMatchObject({ document: 'marina-slip-typed', field: '(layout)', action: 'corrected', value: null, previousStatus: 'review' });
