@@ -25,7 +25,7 @@ import { loadScoreInputs } from '../src/eval/score-run.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
 import { DigitReader } from '../src/read/digit-reader.js';
 import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
-import { loadSchema, type LoadedSchema } from '../src/schema/load.js';
+import { loadSchema, resolveSchema, type LoadedSchema } from '../src/schema/load.js';
 import { generateSamples } from '../src/synth/generate.js';
 
 const { values: args } = parseArgs({
@@ -61,7 +61,7 @@ try {
         say(`generated ${g.pages} ${layout} pages in ${g.seconds.toFixed(0)} s`);
       }
       const full = await loadSchema(path.join('schemas', `${layout}.yaml`));
-      const reduced: LoadedSchema = {
+      const reduced: LoadedSchema = resolveSchema({
         ...full,
         schema: {
           ...full.schema,
@@ -69,7 +69,7 @@ try {
             .filter((f) => f.name === fieldName)
             .map((f) => ({ ...f, confidenceMap: undefined, reviewThreshold: undefined })),
         },
-      };
+      });
       const results = path.join(out, `results-${arm}`, layout);
       await runBatch({ inputs: [samples], schemas: [reduced], detector, outDir: results, digitReader: arm === 'digits' ? reader : undefined });
       const { items } = scoreAll({ ...(await loadScoreInputs(results, samples)), bins: 10 });

@@ -58,7 +58,7 @@ for (const f of draft.fields) {
   const regions = f.type === 'choice' && opts?.choices ? opts.choices.map((c) => c.region) : [f.region];
   for (const r of regions) drafted.push({ box: { x: r[0], y: r[1], w: r[2], h: r[3] }, className: f.className });
 }
-const parts = expectedParts(truthSchema.schema.fields).filter((p) => p.region);
+const parts = expectedParts(truthSchema.fields).filter((p) => p.region);
 const kept = new Map<string, Box>();
 const used = new Set<number>();
 for (const p of parts) {

@@ -9,6 +9,8 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { DigitReader } from '../read/digit-reader.js';
 import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { ReferencePages } from '../pipeline/reference-pages.js';
+import { resolveSchema } from '../schema/load.js';
 import { readInput, type InputJob, type ReadingSetup } from './read-input.js';
 import type { ClaimAnswer, ClaimRequest, WorkerOutcome, WorkerSpec } from './worker-messages.js';
 
@@ -18,7 +20,8 @@ async function open(spec: WorkerSpec): Promise<ReadingSetup> {
   const detector = await loadDetector(spec.modelPath, { intraOpThreads: spec.intraOpThreads });
   const digitReader = spec.digitModelPath ? await DigitReader.open(spec.digitModelPath) : undefined;
   return {
-    schemas: spec.schemas,
+    schemas: spec.schemas.map(resolveSchema),
+    references: await ReferencePages.decode(spec.schemas),
     detector,
     digitReader,
     outDir: spec.outDir,

@@ -3,7 +3,6 @@ import { performance } from 'node:perf_hooks';
 import type { Detection, Detector } from '../detect/types.js';
 import { legibilityFactors } from '../fields/legibility.js';
 import type { ReasonCode } from '../fields/reasons.js';
-import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
 import { DEFAULT_LIMITS, openDocument } from '../input/decode.js';
 import { DEFAULT_LOCATE, locateFields, type LocatedField } from '../locate/locate-fields.js';
@@ -27,7 +26,7 @@ import { chooseLayout } from './choose-layout.js';
 import { confirmUpright } from './confirm-upright.js';
 import { buildFieldResult } from './field-result.js';
 import { readLocatedField, type FieldReadOutcome } from './read-field.js';
-import { referencePageImage } from './reference-images.js';
+import { ReferencePages } from './reference-pages.js';
 import { refineRegionParts } from './refine-regions.js';
 import { settleScripts } from './second-read.js';
 import type { DigitReader } from '../read/digit-reader.js';
@@ -61,6 +60,11 @@ export interface ExtractOptions {
   dropout?: boolean;
   /** Digit reader for digit combs (src/read/digit-reader.ts); the caller opens and closes it. Absent: Tesseract alone. */
   digitReader?: DigitReader;
+  /**
+   * The schemas' blank pages, decoded by the caller that sets up a run of many files (ReferencePages.decode).
+   * Absent: this call decodes them before its first page.
+   */
+  references?: ReferencePages;
 }
 
 export interface ExtractedDocument {
@@ -90,6 +94,7 @@ interface PreparedPage {
  */
 export async function* extractForms(input: string | Buffer, options: ExtractOptions): AsyncGenerator<ExtractedDocument> {
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
+  const references = options.references ?? (await ReferencePages.decode(schemas));
   const doc = await openDocument(input, options.limits ?? DEFAULT_LIMITS);
   try {
     const prepare = async (index: number, clock: StageClock): Promise<PreparedPage> => {
@@ -112,7 +117,7 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       const ocrBefore = sharedOcrEngine().busyMs;
       const head = await prepare(first, clock);
       const started = performance.now();
-      const choose = () => clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections));
+      const choose = () => clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections, references));
       let choice = await choose();
       // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
       // chooses its layout again.
@@ -120,16 +125,17 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       // The layout choice registered this page by image already; its score stands for the upright registration.
       const known = choice.alignment.method.startsWith('image') ? choice.alignment.score : undefined;
       // The upright check's own detector runs count as alignment: they exist only to settle the page's turn.
-      if (upright && (await clock.time('align', () => confirmUpright([head], choice.schema, options.detector, 0, known))).length > 0)
+      if (upright && (await clock.time('align', () => confirmUpright([head], choice.schema, references, options.detector, 0, known))).length > 0)
         choice = await choose();
       const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
       const formPages = [head];
       for (let i = 1; i < count; i++) formPages.push(await prepare(first + i, clock));
-      if (upright && count > 1) await clock.time('align', () => confirmUpright(formPages, choice.schema, options.detector, 1));
+      if (upright && count > 1) await clock.time('align', () => confirmUpright(formPages, choice.schema, references, options.detector, 1));
       const stacked = first > 0 || first + count < doc.pageCount;
       const id = stacked ? `${stem}.p${first + 1}` : stem;
       const result = await extractForm(formPages, choice, schemas.length, {
         ...options,
+        references,
         id,
         source: options.recordedAs ?? (typeof input === 'string' ? recordedPath(input) : '<buffer>'),
         sha256: doc.sha256,
@@ -162,9 +168,9 @@ async function extractForm(
   formPages: readonly PreparedPage[],
   choice: LayoutChoice,
   candidates: number,
-  options: ExtractOptions & { id: string; source: string; sha256: string; clock: StageClock },
+  options: ExtractOptions & { id: string; source: string; sha256: string; clock: StageClock; references: ReferencePages },
 ): Promise<DocumentResult> {
-  const { detector, clock } = options;
+  const { detector, clock, references } = options;
   const loaded = choice.schema;
   const schema = loaded.schema;
   const typeContext = { today: options.today ?? new Date() };
@@ -174,7 +180,7 @@ async function extractForm(
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment =
-      p === 0 ? choice.alignment : await clock.time('align', () => alignToSchemaPage(loaded, p, normalized.image, detections));
+      p === 0 ? choice.alignment : await clock.time('align', () => alignToSchemaPage(loaded, p, normalized.image, detections, references));
     const misfit = alignmentProblem(alignment) !== null;
     pages.push({
       index: p,
@@ -187,12 +193,12 @@ async function extractForm(
       detections: detections.length,
     });
     const toSource = invertAffine(normalized.transform);
-    const pageFields = schema.fields.filter((f) => f.page === p);
+    const pageFields = loaded.fields.filter((f) => f.spec.page === p);
     // The page gate's second half: a page that does not fit its layout is not read (its boxes would be guesses,
     // some off the page); each of its fields goes to review.
     if (misfit) {
       const why: ReasonCode[] = choice.status === 'unknown_layout' ? ['unknown_layout', 'page_not_aligned'] : ['page_not_aligned'];
-      fields.push(...pageFields.map((f) => unreadField(f, 'page_not_aligned', ...why)));
+      fields.push(...pageFields.map((f) => unreadField(f.spec, 'page_not_aligned', ...why)));
       continue;
     }
     const { located, reference, ocrPage } = await clock.time('locate', async () => {
@@ -200,18 +206,18 @@ async function extractForm(
         ...DEFAULT_LOCATE,
         preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
       });
-      const reference = await referencePageImage(loaded, p);
+      const reference = references.page(loaded, p);
       if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
       const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
       return { located, reference, ocrPage };
     });
-    for (const lf of located) {
+    for (const [i, lf] of located.entries()) {
       if (lf.parts.some((part) => part.box && !boxOnPage(part.box, normalized.image))) {
         fields.push(unreadField(lf.field, 'off_page', 'off_page'));
         continue;
       }
-      const type = getFieldType(lf.field.type);
-      const typeOptions = type.options.parse(lf.field.options ?? {});
+      // locateFields answers field by field in the order given.
+      const { type, options: typeOptions } = pageFields[i];
       const outcome = await clock.time('read', () =>
         readLocatedField(lf, type, typeOptions, {
           page: normalized.image,

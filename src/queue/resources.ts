@@ -2,6 +2,7 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import type { Detector } from '../detect/types.js';
 import { configError } from '../errors.js';
 import { DigitReader } from '../read/digit-reader.js';
+import { ReferencePages } from '../pipeline/reference-pages.js';
 import { checkReferenceImages } from '../schema/blank-images.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchema, type LoadedSchema } from '../schema/load.js';
@@ -24,6 +25,8 @@ export interface Offered {
  */
 export class WorkerResources {
   private readonly schemas = new Map<string, LoadedSchema>();
+  /** The blanks of every schema met so far, decoded when the schema is first loaded. */
+  readonly references = new ReferencePages();
   private readonly detectors = new Map<string, Detector>();
   private readonly digitReaders = new Map<string, Promise<DigitReader>>();
 
@@ -49,6 +52,7 @@ export class WorkerResources {
     if (loaded.sha256 !== want.sha256) throw configError(loaded.path, 'schema changed while it was loaded');
     const missing = await checkReferenceImages(loaded);
     if (missing.length > 0) throw configError(loaded.path, missing[0]);
+    await this.references.add([loaded]);
     this.schemas.set(want.sha256, loaded);
     return loaded;
   }

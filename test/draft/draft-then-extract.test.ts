@@ -42,9 +42,10 @@ describe('draft, edit, extract a layout the detector never saw', () => {
     // with the field's name, type and options; drafted areas that stand for nothing are deleted.
     const edited: Record<string, unknown>[] = [];
     const used = new Set<number>();
-    for (const field of truthSchema.schema.fields) {
+    for (const resolved of truthSchema.fields) {
+      const field = resolved.spec;
       if (field.type === 'choice') continue; // a group of boxes: re-drawn by hand in practice, not a drafting check
-      const part = expectedParts([field])[0];
+      const part = expectedParts([resolved])[0];
       let best = -1;
       let bestIou = 0.5;
       draft.fields.forEach((d, i) => {

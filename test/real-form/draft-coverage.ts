@@ -2,7 +2,7 @@ import type { Detector } from '../../src/detect/types.js';
 import type { Box } from '../../src/image/geometry.js';
 import { iou } from '../../src/image/geometry.js';
 import { sharedOcrEngine } from '../../src/read/ocr-engine.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import { fieldRegions, resolveField } from '../../src/schema/resolved-field.js';
 import type { FormSchema } from '../../src/schema/definition.js';
 import { draftSchema } from '../../src/draft/from-image.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
@@ -28,7 +28,7 @@ interface Area {
 
 function areas(schema: FormSchema): Area[] {
   return schema.fields.flatMap((f) =>
-    fieldRegions(f).map(({ region: [x, y, w, h] }) => ({ box: { x, y, w, h }, className: f.class })),
+    fieldRegions(resolveField(f)).map(({ region: [x, y, w, h] }) => ({ box: { x, y, w, h }, className: f.class })),
   );
 }
 
