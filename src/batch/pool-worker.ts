@@ -8,7 +8,7 @@ import Tinypool from 'tinypool';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { DigitReader } from '../read/digit-reader.js';
-import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { OcrEngine } from '../read/ocr-engine.js';
 import { ReferencePages } from '../pipeline/reference-pages.js';
 import { resolveSchema } from '../schema/load.js';
 import { readInput, type InputJob, type ReadingSetup } from './read-input.js';
@@ -22,6 +22,7 @@ async function open(spec: WorkerSpec): Promise<ReadingSetup> {
   return {
     schemas: spec.schemas.map(resolveSchema),
     references: await ReferencePages.decode(spec.schemas),
+    ocr: new OcrEngine(),
     detector,
     digitReader,
     outDir: spec.outDir,
@@ -69,5 +70,5 @@ export async function closeWorker(): Promise<void> {
   opened = null;
   await setup?.detector.close();
   await setup?.digitReader?.close();
-  await closeSharedOcrEngine();
+  await setup?.ocr.close();
 }

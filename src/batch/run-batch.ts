@@ -8,6 +8,7 @@ import type { Detector } from '../detect/types.js';
 import { configError, oneLine } from '../errors.js';
 import { ReferencePages } from '../pipeline/reference-pages.js';
 import type { DigitReader } from '../read/digit-reader.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
 import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
@@ -33,6 +34,8 @@ export interface BatchOptions {
   /** One schema, or several (each document goes to the layout it aligns with best). */
   schemas: readonly LoadedSchema[];
   detector: Detector;
+  /** OCR engine of the reads in this thread (workers: 1); worker threads open their own. The caller closes it. */
+  ocr: OcrEngine;
   outDir: string;
   /** Reuse a document's JSON when the file, schema and model are unchanged since it was written. */
   resume?: boolean;
@@ -171,6 +174,7 @@ function inputReader(options: BatchOptions, workers: number, references: Referen
     schemas: options.schemas,
     references,
     detector: options.detector,
+    ocr: options.ocr,
     outDir: options.outDir,
     deskew: options.deskew,
     orientation: options.orientation,
@@ -184,7 +188,7 @@ function inputReader(options: BatchOptions, workers: number, references: Referen
   const threads = options.threadsPerWorker ?? Math.max(1, Math.floor(availableCores() / workers));
   // Sessions, decoded blanks and the schemas' resolved field types do not cross into a thread: each worker opens,
   // decodes and resolves its own from plain data.
-  const { detector: _d, digitReader: _r, references: _p, schemas, ...rest } = setup;
+  const { detector: _d, digitReader: _r, references: _p, ocr: _o, schemas, ...rest } = setup;
   return openWorkerPool(
     { ...rest, schemas: schemas.map(({ schema, path, sha256 }) => ({ schema, path, sha256 })), modelPath: options.detector.path, intraOpThreads: threads, digitModelPath: options.digitReader?.path },
     workers,

@@ -30,13 +30,15 @@ import { ReferencePages } from './reference-pages.js';
 import { refineRegionParts } from './refine-regions.js';
 import { settleScripts } from './second-read.js';
 import type { DigitReader } from '../read/digit-reader.js';
-import { sharedOcrEngine } from '../read/ocr-engine.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import { StageClock, type StageTimes } from '../results/stage-times.js';
 
 export interface ExtractOptions {
   /** One schema, or several: each document is assigned to the layout its first page aligns with best. */
   schema: LoadedSchema | readonly LoadedSchema[];
   detector: Detector;
+  /** The OCR engine every text read goes through; the caller creates and closes it, as it does the detector. */
+  ocr: OcrEngine;
   /** Id used for the result's file name; default: the file name without extension. */
   documentId?: string;
   /**
@@ -114,7 +116,7 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
     const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : doc.sha256.slice(0, 12));
     for (let first = 0; first < doc.pageCount; ) {
       const clock = new StageClock();
-      const ocrBefore = sharedOcrEngine().busyMs;
+      const ocrBefore = options.ocr.busyMs;
       const head = await prepare(first, clock);
       const started = performance.now();
       const choose = () => clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections, references));
@@ -142,7 +144,7 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
         clock,
       });
       result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
-      clock.ms.ocr = sharedOcrEngine().busyMs - ocrBefore;
+      clock.ms.ocr = options.ocr.busyMs - ocrBefore;
       yield { result, pages: formPages.map((p) => p.source), stages: clock.ms };
       first += count;
     }
@@ -226,6 +228,7 @@ async function extractForm(
           padding: schema.defaults.padding,
           typeContext,
           digitReader: options.digitReader,
+          ocr: options.ocr,
         }),
       );
       read.push({ lf, outcome, toSource, alignment });
