@@ -27,12 +27,15 @@ import { distance } from 'fastest-levenshtein';
 import { grayFromImage, type GrayImage } from '../src/image/raster.js';
 import { cropField } from '../src/read/crop.js';
 import type { CleanupStep } from '../src/read/cleanup/pipeline.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { readTextField, readVariant } from '../src/read/read-text.js';
 import { VARIANTS } from '../src/read/variants.js';
 import { getFieldType } from '../src/fields/registry.js';
 import type { OcrMode, TextReading } from '../src/fields/types.js';
 import { generateSamples } from '../src/synth/generate.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const { values: args } = parseArgs({
   options: {
@@ -199,11 +202,11 @@ async function readOne(pages: GrayImage[], truths: Truth[], s: Sample, row: Row)
     const type = getFieldType(s.field.type === 'choice_text' ? 'text' : s.field.type);
     const today = new Date();
     const accept = (r: TextReading) => type.interpret(r, s.options, { today }).outcome === 'valid';
-    return (await readTextField(pages[s.page], box, { padding, mode: s.mode, allowed, comb, accept, characterHeight })).reading;
+    return (await readTextField(pages[s.page], box, { engine: ocr, padding, mode: s.mode, allowed, comb, accept, characterHeight })).reading;
   }
   const crop = cropField(pages[s.page], box, padding);
   const variant = { name: row.name, steps: row.steps, perCell: row.perCell && comb };
-  return readVariant(crop, variant, { mode: s.mode, allowed, comb, skew, characterHeight });
+  return readVariant(crop, variant, { engine: ocr, mode: s.mode, allowed, comb, skew, characterHeight });
 }
 
 async function main(): Promise<void> {
@@ -253,7 +256,7 @@ async function main(): Promise<void> {
   const ceiling = anyVariant.reduce((a, b) => a + b, 0);
   console.log('');
   console.log(`ceiling for second tries (any shipped variant exact, of the rows run): ${((100 * ceiling) / samples.length).toFixed(1)} %`);
-  await closeSharedOcrEngine();
+  await ocr.close();
 }
 
 await main();

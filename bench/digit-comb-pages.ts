@@ -24,9 +24,12 @@ import { scoreAll } from '../src/eval/score.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
 import { DigitReader } from '../src/read/digit-reader.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
-import { loadSchema, type LoadedSchema } from '../src/schema/load.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
+import { loadSchema, resolveSchema, type LoadedSchema } from '../src/schema/load.js';
 import { generateSamples } from '../src/synth/generate.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const { values: args } = parseArgs({
   options: {
@@ -61,7 +64,7 @@ try {
         say(`generated ${g.pages} ${layout} pages in ${g.seconds.toFixed(0)} s`);
       }
       const full = await loadSchema(path.join('schemas', `${layout}.yaml`));
-      const reduced: LoadedSchema = {
+      const reduced: LoadedSchema = resolveSchema({
         ...full,
         schema: {
           ...full.schema,
@@ -69,9 +72,9 @@ try {
             .filter((f) => f.name === fieldName)
             .map((f) => ({ ...f, confidenceMap: undefined, reviewThreshold: undefined })),
         },
-      };
+      });
       const results = path.join(out, `results-${arm}`, layout);
-      await runBatch({ inputs: [samples], schemas: [reduced], detector, outDir: results, digitReader: arm === 'digits' ? reader : undefined });
+      await runBatch({ ocr, inputs: [samples], schemas: [reduced], detector, outDir: results, digitReader: arm === 'digits' ? reader : undefined });
       const { items } = scoreAll({ ...(await loadScoreInputs(results, samples)), bins: 10 });
       const { results: docs } = await loadScoreInputs(results, samples);
       for (const doc of docs.values()) for (const f of doc.fields) if (f.reasons.includes('ambiguous_digit_readers')) disagree++;
@@ -93,7 +96,7 @@ try {
 } finally {
   await detector.close();
   await reader.close();
-  await closeSharedOcrEngine();
+  await ocr.close();
 }
 process.stdout.write(
   `digit-comb-pages: set ${set}, fill ${fill}, comb digits ${realDigits ? 'MNIST test split' : 'in the page font'}, ${count} pages per layout (demo layouts, light scans)\n${rows.join('\n')}\n`,

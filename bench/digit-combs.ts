@@ -28,7 +28,7 @@ import { readLocatedField } from '../src/pipeline/read-field.js';
 import { cellImage } from '../src/read/comb-cells.js';
 import { cropField } from '../src/read/crop.js';
 import { DigitReader } from '../src/read/digit-reader.js';
-import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { locateCombCells } from '../src/read/read-text.js';
 import { removeDashedRules } from '../src/read/cleanup/line-removal.js';
 import { COMB_CELLS } from '../src/read/variants.js';
@@ -71,7 +71,7 @@ const order = new Rng(seed).shuffle(all);
 const stripCount = Math.min(Math.floor(order.length / CELLS), args.strips ? Number(args.strips) : Infinity);
 
 const reader = await DigitReader.open();
-const engine = sharedOcrEngine();
+const engine = new OcrEngine();
 const spec = FieldSpec.parse({ name: 'number', type: 'text', class: 'comb_field', page: 0, region: [0, 0, 1, 1], options: { pattern: '^[0-9]{6}$' } });
 const type = getFieldType('text');
 const options = type.options.parse(spec.options ?? {});
@@ -127,7 +127,7 @@ for (let s = 0; s < stripCount; s++) {
     parts: [{ key: spec.name, box: strip.box, source: 'detection', detectionScore: 0.9, expected: null, region: null, reasons: [] }],
   };
   for (const which of ['ocr', 'both'] as const) {
-    const outcome = await readLocatedField(located, type, options, {
+    const outcome = await readLocatedField(located, type, options, { ocr: engine,
       page: strip.image,
       padding: 4,
       typeContext: { today: new Date() },
@@ -164,7 +164,7 @@ for (let s = 0; s < stripCount; s++) {
   if ((s + 1) % 25 === 0) process.stderr.write(`strip ${s + 1}/${stripCount}\n`);
 }
 await reader.close();
-await closeSharedOcrEngine();
+await engine.close();
 
 const pct = (a: number, b: number) => (b ? ((100 * a) / b).toFixed(2) : '-');
 const total = perDigit.reduce((s, d) => s + d.n, 0);

@@ -20,7 +20,7 @@ import { invertAffine, iou, transformBox } from '../src/image/geometry.js';
 import { refineRegion } from '../src/page/local-refine.js';
 import { normalizePage } from '../src/page/normalize.js';
 import { grayFromImage } from '../src/image/raster.js';
-import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { draftSchema } from '../src/draft/from-image.js';
 import { loadSchema, referenceImagePath } from '../src/schema/load.js';
 
@@ -44,12 +44,12 @@ if (!layout || !dir) {
 const truthSchema = await loadSchema(`schemas/${layout}.yaml`);
 const blank = normalizePage(await grayFromImage(referenceImagePath(truthSchema, 0)!)).image;
 const detector = await loadDetector(model);
-const ocr = sharedOcrEngine();
+const ocr = new OcrEngine();
 const draft = await draftSchema([blank], [await detector.detect(blank)], async (c) => (await ocr.read(c, { mode: 'line' })).text, {
   formName: `${layout}-draft`,
   referenceImages: ['blank.png'],
 });
-await closeSharedOcrEngine();
+await ocr.close();
 
 // The user's edit: each truth part takes the drafted area (or choice option) of its class that overlaps it most.
 const drafted: Array<{ box: Box; className: string }> = [];
@@ -58,7 +58,7 @@ for (const f of draft.fields) {
   const regions = f.type === 'choice' && opts?.choices ? opts.choices.map((c) => c.region) : [f.region];
   for (const r of regions) drafted.push({ box: { x: r[0], y: r[1], w: r[2], h: r[3] }, className: f.className });
 }
-const parts = expectedParts(truthSchema.schema.fields).filter((p) => p.region);
+const parts = expectedParts(truthSchema.fields).filter((p) => p.region);
 const kept = new Map<string, Box>();
 const used = new Set<number>();
 for (const p of parts) {

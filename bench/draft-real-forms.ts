@@ -35,7 +35,7 @@ import type { Box } from '../src/image/geometry.js';
 import { iou } from '../src/image/geometry.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { closeSharedOcrEngine, sharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const { values: args } = parseArgs({
@@ -86,7 +86,7 @@ interface Row {
 }
 
 const detector = await loadDetector(args.model!);
-const ocr = sharedOcrEngine();
+const ocr = new OcrEngine();
 const rows: Row[] = [];
 let checkboxDetections = 0;
 /** Name words that carry meaning: three letters or more, no digits (the _2 of a repeated name is left out). */
@@ -175,7 +175,7 @@ try {
   }
 } finally {
   await detector.close();
-  await closeSharedOcrEngine();
+  await ocr.close();
 }
 const sum = (k: keyof Row) => rows.reduce((s, r) => s + (r[k] as number), 0);
 const pct = (a: number, b: number) => (b > 0 ? `${((100 * a) / b).toFixed(1)} %` : '-');

@@ -17,10 +17,13 @@ import { transformBox } from '../src/image/geometry.js';
 import { normalizePage } from '../src/page/normalize.js';
 import { grayFromImage } from '../src/image/raster.js';
 import type { GrayImage } from '../src/image/raster.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { readTextField } from '../src/read/read-text.js';
 import { PLAIN, STANDARD } from '../src/read/variants.js';
 import { loadSchema, referenceImagePath } from '../src/schema/load.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const args = process.argv.slice(2);
 const opt = (name: string, fallback: number) => {
@@ -64,7 +67,7 @@ for (const dir of args) {
       const images: Record<string, GrayImage> = { page: n.image, dropout: dropped };
       for (const c of combos) {
         const [img, variant] = c.split('/');
-        const r = await readTextField(images[img], box, {
+        const r = await readTextField(images[img], box, { engine: ocr,
           variants: [variant === 'plain' ? PLAIN : STANDARD],
           comb: field.class === 'comb_field',
           mode: field.ocr?.mode ?? 'line',
@@ -79,7 +82,7 @@ for (const dir of args) {
     }
   }
 }
-await closeSharedOcrEngine();
+await ocr.close();
 console.log(`pages ${pages}, fields read ${stats['page/standard'].n}, dilation ${dilate} px, ${local ? 'local shifts' : 'global alignment only'}`);
 for (const c of combos) {
   const s = stats[c];

@@ -30,7 +30,7 @@ import { runBatch } from '../src/batch/run-batch.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { writeFileAtomic, writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { loadSchema } from '../src/schema/load.js';
 import { generateSamples } from '../src/synth/generate.js';
 import type { FillMode } from '../src/synth/fill.js';
@@ -45,6 +45,9 @@ import { runScore } from '../src/eval/score-run.js';
 import { formatScore } from '../src/eval/score-table.js';
 import { scoreAll, type Metrics, type ScoredField } from '../src/eval/score.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const LAYOUTS = ['clinic-intake', 'marina-slip', 'garden-plot'] as const;
 const FILLS = ['typed', 'handwriting'] as const;
@@ -144,7 +147,7 @@ let pages = 0;
 try {
   for (const layout of layouts) {
     const schema = await loadSchema(path.join('schemas', `${layout}.yaml`));
-    const report = await runBatch({
+    const report = await runBatch({ ocr,
       inputs: fills.map((f) => path.join(samplesDir, `${layout}-${f}`)),
       schemas: [schema],
       detector,
@@ -161,7 +164,7 @@ try {
   }
 } finally {
   await detector.close();
-  await closeSharedOcrEngine();
+  await ocr.close();
 }
 
 // 3. score

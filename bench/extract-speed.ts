@@ -12,10 +12,13 @@ import { runBatch } from '../src/batch/run-batch.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { percentile } from '../src/eval/percentile.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { loadSchemas } from '../src/schema/load-many.js';
 import { generateSamples } from '../src/synth/generate.js';
 import type { DegradeLevel } from '../src/synth/scan-params.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const { values: args } = parseArgs({
   options: {
@@ -50,7 +53,7 @@ if (!existsSync(path.join(data, 'garden-plot'))) {
 const schemas = await loadSchemas(layouts.map((l) => path.join(root, 'schemas', `${l}.yaml`)));
 const detector = await loadDetector(args.model as string, { intraOpThreads: Number(args.threads) });
 const seconds: number[] = [];
-const report = await runBatch({
+const report = await runBatch({ ocr,
   inputs: layouts.map((l) => path.join(data, l)),
   schemas,
   detector,
@@ -60,7 +63,7 @@ const report = await runBatch({
   },
 });
 await detector.close();
-await closeSharedOcrEngine();
+await ocr.close();
 
 const s = report.summary;
 const mean = seconds.reduce((a, b) => a + b, 0) / Math.max(1, seconds.length);

@@ -14,7 +14,7 @@ import { expectedParts } from '../src/locate/expected-boxes.js';
 import { alignByImage } from '../src/page/align-image.js';
 import { refineRegion } from '../src/page/local-refine.js';
 import { normalizePage } from '../src/page/normalize.js';
-import { referencePageImage } from '../src/pipeline/reference-images.js';
+import { ReferencePages } from '../src/pipeline/reference-pages.js';
 import { loadSchema } from '../src/schema/load.js';
 
 const { values: args } = parseArgs({ options: { repeat: { type: 'string', default: '3' }, save: { type: 'string' }, check: { type: 'string' } } });
@@ -37,14 +37,14 @@ const times = { align: [] as number[], refine: [] as number[] };
 for (let rep = 0; rep < Number(args.repeat); rep++) {
   for (const [file, layout] of cases) {
     const loaded = await loadSchema(path.join(root, 'schemas', `${layout}.yaml`));
-    const reference = await referencePageImage(loaded, 0)!;
+    const reference = (await ReferencePages.decode([loaded])).page(loaded, 0)!;
     // A fresh raster each repeat: ink maps are cached per raster, and a batch sees each page once.
     const page = normalizePage((await decodeDocument(path.join(root, file))).pages[0]).image;
     let t = cpuMs();
     const aligned = alignByImage(page, reference);
     times.align.push(cpuMs() - t);
     t = cpuMs();
-    const boxes = expectedParts(loaded.schema.fields.filter((f) => f.page === 0)).flatMap((p) => (p.region ? [refineRegion(page, reference, aligned.refToPage, p.region)] : []));
+    const boxes = expectedParts(loaded.fields.filter((f) => f.spec.page === 0)).flatMap((p) => (p.region ? [refineRegion(page, reference, aligned.refToPage, p.region)] : []));
     times.refine.push(cpuMs() - t);
     if (rep === 0) outputs.push({ file, refToPage: aligned.refToPage, score: aligned.score, boxes });
   }

@@ -73,7 +73,7 @@ for (const dir of dirs) {
       if (tf.parts) for (const p of tf.parts) truthBoxes.set(`${tf.name}/${p.key}`, { x: p.box[0], y: p.box[1], w: p.box[2], h: p.box[3] });
       else truthBoxes.set(`${tf.name}/${tf.name}`, { x: tf.box[0], y: tf.box[1], w: tf.box[2], h: tf.box[3] });
     }
-    for (const part of expectedParts(schema.schema.fields)) {
+    for (const part of expectedParts(schema.fields)) {
       const tb = truthBoxes.get(`${part.field.name}/${part.key}`);
       if (!tb || !part.region) continue;
       const onPage = refine ? refineRegion(n.image, cand.reference!, a.refToPage, part.region).box : transformBox(a.refToPage, part.region);

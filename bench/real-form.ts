@@ -31,13 +31,16 @@ import { decodeDocument } from '../src/input/decode.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
 import { extractDocument } from '../src/pipeline/extract-document.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import type { DocumentResult } from '../src/result/document.js';
 import type { DegradeLevel } from '../src/synth/scan-params.js';
 import { alignmentError, referenceToSource, type AlignmentError } from '../test/real-form/alignment-error.js';
 import { draftCoverage, type DraftCoverage } from '../test/real-form/draft-coverage.js';
 import { writeW4Set } from '../test/real-form/fill.js';
 import { loadW4Schema, REPO_ROOT, W4_BLANK_COCO } from '../test/real-form/w4-layout.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const { values: args } = parseArgs({
   options: {
@@ -104,7 +107,7 @@ async function main(): Promise<void> {
     const today = new Date(Date.UTC(2025, 11, 31));
     for (const { stem, scan } of set.pages) {
       const file = path.join(outDir, `${stem}.png`);
-      const { result } = await extractDocument(file, { schema: loaded, detector, today });
+      const { result } = await extractDocument(file, { ocr, schema: loaded, detector, today });
       results.set(stem, result);
       const source = (await decodeDocument(file)).pages[0];
       const refToSource = referenceToSource(result, source);
@@ -124,7 +127,7 @@ async function main(): Promise<void> {
     // (c) drafting on the blank.
     let draft: DraftCoverage | { error: string };
     try {
-      draft = await draftCoverage(loaded, detector);
+      draft = await draftCoverage(loaded, detector, ocr);
       process.stdout.write(
         `(c) drafting on the blank: ${draft.covered}/${draft.labelled} labelled entry areas covered at IoU >= 0.5 ` +
           `(${pct(draft.coverage)}; ${draft.coveredSameClass} with the same class); the draft holds ${draft.drafted} areas\n`,
@@ -156,7 +159,7 @@ async function main(): Promise<void> {
     );
   } finally {
     await detector.close();
-    await closeSharedOcrEngine();
+    await ocr.close();
   }
 }
 

@@ -37,9 +37,12 @@ import { DEFAULT_BINS, reliability } from '../src/eval/reliability.js';
 import { reliabilitySvg } from '../src/eval/reliability-diagram.js';
 import { writeFileAtomic, writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { closeSharedOcrEngine } from '../src/read/ocr-engine.js';
+import { OcrEngine } from '../src/read/ocr-engine.js';
 import { loadSchema } from '../src/schema/load.js';
 import { fillPdfSamples } from '../src/synth/pdf-fill/fill-pdf.js';
+
+// The run's OCR engine, closed at the end.
+const ocr = new OcrEngine();
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -124,7 +127,7 @@ try {
         row.fields = loaded.schema.fields.length;
         const pages = (await readdir(samples)).filter((f) => f.endsWith('.png') && !f.endsWith('.blank.png')).map((f) => path.join(samples, f));
         await rm(results, { recursive: true, force: true });
-        const report = await runBatch({ inputs: pages, schemas: [loaded], detector, outDir: results });
+        const report = await runBatch({ ocr, inputs: pages, schemas: [loaded], detector, outDir: results });
         row.pages = pages.length;
         row.failedPages = report.lines.filter((l) => !l.ok).length;
         row.extractSeconds = report.summary.seconds;
@@ -139,7 +142,7 @@ try {
   }
 } finally {
   await detector.close();
-  await closeSharedOcrEngine();
+  await ocr.close();
 }
 
 const pct = (a: number, b: number): string => (b > 0 ? `${((100 * a) / b).toFixed(1)} %` : '-');

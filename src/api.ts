@@ -4,13 +4,14 @@
  *
  *   const schema = await loadSchema('schemas/clinic-intake.yaml');
  *   const detector = await loadDetector(DEFAULT_MODEL_PATH);
+ *   const ocr = new OcrEngine(); // one tesseract.js worker, started on the first read
  *   const digitReader = await DigitReader.open(); // optional: digit combs read cell by cell beside Tesseract
- *   const { result } = await extractDocument('samples/clinic-intake-typed.png', { schema, detector, digitReader });
+ *   const { result } = await extractDocument('samples/clinic-intake-typed.png', { schema, detector, ocr, digitReader });
  *   console.log(result.fields.filter((f) => f.status === 'accepted').length, 'fields accepted');
- *   await runBatch({ inputs: ['samples/clinic-intake-typed.png'], schemas: [schema], detector, digitReader, outDir: 'out' });
+ *   await runBatch({ inputs: ['samples/clinic-intake-typed.png'], schemas: [schema], detector, ocr, digitReader, outDir: 'out' });
  *   await digitReader.close();
  *   await detector.close();
- *   await closeSharedOcrEngine(); // the OCR worker the reads shared
+ *   await ocr.close();
  */
 export { loadSchema, parseSchemaText, referenceImagePath } from './schema/load.js';
 export { loadSchemas } from './schema/load-many.js';
@@ -37,5 +38,5 @@ export { startReviewPage } from './review/page/server.js';
 export type { ReviewPage, ReviewPageOptions } from './review/page/server.js';
 export { REASONS, reasonInfo } from './fields/reasons.js';
 export type { ReasonCode } from './fields/reasons.js';
-export { closeSharedOcrEngine } from './read/ocr-engine.js';
+export { OcrEngine } from './read/ocr-engine.js';
 export { FormgleanError } from './errors.js';

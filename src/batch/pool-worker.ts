@@ -8,7 +8,9 @@ import Tinypool from 'tinypool';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { FormgleanError, oneLine } from '../errors.js';
 import { DigitReader } from '../read/digit-reader.js';
-import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { OcrEngine } from '../read/ocr-engine.js';
+import { ReferencePages } from '../pipeline/reference-pages.js';
+import { resolveSchema } from '../schema/load.js';
 import { readInput, type InputJob, type ReadingSetup } from './read-input.js';
 import type { ClaimAnswer, ClaimRequest, WorkerOutcome, WorkerSpec } from './worker-messages.js';
 
@@ -18,7 +20,9 @@ async function open(spec: WorkerSpec): Promise<ReadingSetup> {
   const detector = await loadDetector(spec.modelPath, { intraOpThreads: spec.intraOpThreads });
   const digitReader = spec.digitModelPath ? await DigitReader.open(spec.digitModelPath) : undefined;
   return {
-    schemas: spec.schemas,
+    schemas: spec.schemas.map(resolveSchema),
+    references: await ReferencePages.decode(spec.schemas),
+    ocr: new OcrEngine(),
     detector,
     digitReader,
     outDir: spec.outDir,
@@ -66,5 +70,5 @@ export async function closeWorker(): Promise<void> {
   opened = null;
   await setup?.detector.close();
   await setup?.digitReader?.close();
-  await closeSharedOcrEngine();
+  await setup?.ocr.close();
 }

@@ -6,8 +6,9 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { Detector } from '../detect/types.js';
 import { configError, oneLine } from '../errors.js';
-import { referencePageImage } from '../pipeline/reference-images.js';
+import { ReferencePages } from '../pipeline/reference-pages.js';
 import type { DigitReader } from '../read/digit-reader.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import type { DocumentResult } from '../result/document.js';
 import { readResultsRecord } from '../results/document-record.js';
 import { mergeLines, readIndex, warnOnStderr, type Warn } from '../results/index-read.js';
@@ -34,6 +35,8 @@ export interface BatchOptions {
   /** One schema, or several (each document goes to the layout it aligns with best). */
   schemas: readonly LoadedSchema[];
   detector: Detector;
+  /** OCR engine of the reads in this thread (workers: 1); worker threads open their own. The caller closes it. */
+  ocr: OcrEngine;
   outDir: string;
   /** Reuse a document's JSON when the file, schema and model are unchanged since it was written. */
   resume?: boolean;
@@ -139,16 +142,18 @@ export function previousStem(own: readonly ResultsLine[]): string | undefined {
 
 /**
  * Everything that can stop the run as a configuration error is checked before the results folder is touched: the
- * inputs exist, every schema's blank reference images decode, the folder can be created and written.
+ * inputs exist, every schema's blank reference images decode, the folder can be created and written. Returns the
+ * decoded blanks, for the readers in this thread.
  */
-export async function checkBeforeWriting(options: Pick<BatchOptions, 'schemas' | 'outDir'>): Promise<void> {
-  for (const s of options.schemas) for (const [i] of s.schema.pages.entries()) await referencePageImage(s, i);
+export async function checkBeforeWriting(options: Pick<BatchOptions, 'schemas' | 'outDir'>): Promise<ReferencePages> {
+  const references = await ReferencePages.decode(options.schemas);
   try {
     await mkdir(options.outDir, { recursive: true });
     await access(options.outDir, constants.W_OK);
   } catch (err) {
     throw configError(options.outDir, `cannot write the results folder (${(err as NodeJS.ErrnoException).code ?? oneLine(err)})`);
   }
+  return references;
 }
 
 /** Cores this process may use (os.availableParallelism, Node >= 18.14). */
@@ -166,10 +171,12 @@ export function defaultWorkers(): number {
 }
 
 /** Who reads the inputs: this thread, or a pool of worker threads each opening its own sessions. */
-function inputReader(options: BatchOptions, workers: number): InputReader {
+function inputReader(options: BatchOptions, workers: number, references: ReferencePages): InputReader {
   const setup: ReadingSetup = {
     schemas: options.schemas,
+    references,
     detector: options.detector,
+    ocr: options.ocr,
     outDir: options.outDir,
     deskew: options.deskew,
     orientation: options.orientation,
@@ -181,9 +188,11 @@ function inputReader(options: BatchOptions, workers: number): InputReader {
   // Each worker's detector gets its share of the cores, so W workers do not start W x cores operator threads
   // (the detector is the only multi-threaded stage; tesseract.js and the digit reader run one thread each).
   const threads = options.threadsPerWorker ?? Math.max(1, Math.floor(availableCores() / workers));
-  const { detector: _d, digitReader: _r, schemas, ...rest } = setup;
+  // Sessions, decoded blanks and the schemas' resolved field types do not cross into a thread: each worker opens,
+  // decodes and resolves its own from plain data.
+  const { detector: _d, digitReader: _r, references: _p, ocr: _o, schemas, ...rest } = setup;
   return openWorkerPool(
-    { ...rest, schemas: [...schemas], modelPath: options.detector.path, intraOpThreads: threads, digitModelPath: options.digitReader?.path },
+    { ...rest, schemas: schemas.map(({ schema, path, sha256 }) => ({ schema, path, sha256 })), modelPath: options.detector.path, intraOpThreads: threads, digitModelPath: options.digitReader?.path },
     workers,
   );
 }
@@ -202,7 +211,7 @@ function inputReader(options: BatchOptions, workers: number): InputReader {
 export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const warn = options.warn ?? warnOnStderr;
   const { files, skipped } = await discoverInputs(options.inputs, { exclude: [options.outDir] });
-  await checkBeforeWriting(options);
+  const references = await checkBeforeWriting(options);
   await removeOrphanTemps(options.outDir);
   const index = await readIndex(options.outDir, warn);
   // A run cut off earlier left a journal (or a summary behind its index): fold it in before anything else.
@@ -215,7 +224,7 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const startedAt = new Date();
   const started = performance.now();
   const workers = Math.max(1, Math.min(options.workers ?? 1, files.length || 1));
-  const reader = inputReader(options, workers);
+  const reader = inputReader(options, workers, references);
   options.onStart?.({ inputs: files.length, workers });
   // Lines per input, in input order whatever order the inputs finish in.
   const perInput: ResultsLine[][] = [];

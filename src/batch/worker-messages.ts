@@ -1,10 +1,11 @@
-import type { LoadedSchema } from '../schema/load.js';
+import type { SchemaFile } from '../schema/load.js';
 import type { ResultsLine } from '../results/results-line.js';
 import type { StageTimes } from '../results/stage-times.js';
 
 /** What a worker thread needs to open its own reading setup (structured-cloned into the thread once). */
 export interface WorkerSpec {
-  schemas: LoadedSchema[];
+  /** Plain data: the worker resolves the fields and decodes the blanks itself. */
+  schemas: SchemaFile[];
   modelPath: string;
   /** onnxruntime intra-op threads of the worker's detector session. */
   intraOpThreads: number;

@@ -5,7 +5,7 @@ import { defaultWorkers, runBatch } from '../batch/run-batch.js';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
 import { DEFAULT_MODEL_PATH } from '../models.js';
-import { closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { OcrEngine } from '../read/ocr-engine.js';
 import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../read/digit-reader.js';
 import { checkReferenceImages } from '../schema/blank-images.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
@@ -140,6 +140,8 @@ export function registerExtractCommand(program: Command): void {
       const detector = await loadDetector(opts.model, { intraOpThreads: threads });
       checkSchemasAgainstDetector(schemas, detector);
       const digitReader = opts.digitReader ? await DigitReader.open(opts.digitModel) : undefined;
+      // Started on the first read: with worker threads, each opens its own and this one stays idle.
+      const ocr = new OcrEngine();
       const mode: ProgressMode = opts.quiet ? 'quiet' : opts.jsonLog ? 'json' : process.stderr.isTTY ? 'tty' : 'lines';
       let progress = null as BatchProgress | null;
       const stop = stopOnSignals(() => progress);
@@ -148,6 +150,7 @@ export function registerExtractCommand(program: Command): void {
           inputs,
           schemas,
           detector,
+          ocr,
           outDir: opts.out,
           resume: opts.resume,
           deskew: opts.deskew,
@@ -186,7 +189,7 @@ export function registerExtractCommand(program: Command): void {
         progress?.finish({});
         await detector.close();
         await digitReader?.close();
-        await closeSharedOcrEngine();
+        await ocr.close();
       }
     });
 }

@@ -4,7 +4,6 @@ import type { Command } from 'commander';
 import { sha256Of } from '../batch/run-batch.js';
 import { loadDetector } from '../detect/onnx-detector.js';
 import { configError, printable } from '../errors.js';
-import { closeSharedOcrEngine } from '../read/ocr-engine.js';
 import { collectResults } from '../queue/collect.js';
 import { checkQueueName, DEFAULT_QUEUE } from '../queue/names.js';
 import { parseRedisUrl, mask, REDIS_URL_ENV, type RedisTarget } from '../queue/redis-url.js';
@@ -125,7 +124,6 @@ export function registerQueueCommand(program: Command): void {
       } finally {
         redis.disconnect();
         await resources.close();
-        await closeSharedOcrEngine();
       }
     });
   });

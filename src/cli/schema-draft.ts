@@ -14,7 +14,7 @@ import type { OverlayItem } from '../page/overlay.js';
 import { renderOverlay } from '../page/overlay.js';
 import type { GrayImage } from '../image/raster.js';
 import { grayToPng } from '../image/raster.js';
-import { sharedOcrEngine, closeSharedOcrEngine } from '../read/ocr-engine.js';
+import { OcrEngine } from '../read/ocr-engine.js';
 import type { DraftedField, SchemaDraft } from '../draft/from-image.js';
 import { draftSchema } from '../draft/from-image.js';
 import type { SchemaValue } from '../schema/schema-value.js';
@@ -161,7 +161,7 @@ export function addDraftSubcommand(schemaCommand: Command): void {
       }
       const refs = await referenceImages(input, flags.out, pages, changed);
       const formName = flags.name ?? path.basename(input).replace(/\.[^.]+$/, '');
-      const ocr = sharedOcrEngine();
+      const ocr = new OcrEngine();
       let draft: SchemaDraft;
       try {
         draft = await draftSchema(pages, detections, async (crop) => (await ocr.read(crop, { mode: 'line' })).text, {
@@ -170,7 +170,7 @@ export function addDraftSubcommand(schemaCommand: Command): void {
           referenceImages: refs.names,
         });
       } finally {
-        await closeSharedOcrEngine();
+        await ocr.close();
       }
       const header =
         `# Drafted by formglean schema draft from ${path.basename(input)} with ${path.basename(flags.model)}.\n` +

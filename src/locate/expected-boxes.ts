@@ -1,5 +1,5 @@
-import { fieldParts } from '../schema/consistency.js';
 import type { FieldSpec } from '../schema/definition.js';
+import type { ResolvedField } from '../schema/resolved-field.js';
 import type { Box } from '../image/geometry.js';
 
 /** One box to find on the page: a field, or one box of a choice group. */
@@ -12,12 +12,12 @@ export interface ExpectedPart {
 }
 
 /** The parts of every field, with their reference regions. */
-export function expectedParts(fields: readonly FieldSpec[]): ExpectedPart[] {
-  return fields.flatMap((field) =>
-    fieldParts(field).map(({ key, region: r }) => ({
-      field,
+export function expectedParts(fields: readonly ResolvedField[]): ExpectedPart[] {
+  return fields.flatMap(({ spec, parts }) =>
+    parts.map(({ key, region: r }) => ({
+      field: spec,
       key,
-      className: field.class,
+      className: spec.class,
       region: r ? { x: r[0], y: r[1], w: r[2], h: r[3] } : null,
     })),
   );

@@ -2,6 +2,7 @@ import type { Detection } from '../detect/types.js';
 import type { Affine, Box } from '../image/geometry.js';
 import { transformBox } from '../image/geometry.js';
 import type { FieldSpec } from '../schema/definition.js';
+import type { ResolvedField } from '../schema/resolved-field.js';
 import type { ReasonCode } from '../fields/reasons.js';
 import type { ExpectedPart } from './expected-boxes.js';
 import { expectedParts } from './expected-boxes.js';
@@ -50,10 +51,10 @@ export const DEFAULT_LOCATE: LocateOptions = { minMatch: 0.3, preferRegion: fals
  * detection elsewhere on the page is another box (on real layouts, the best comb of a page that has several combs
  * printed, only one of them a field, was read for a date of birth on 29 pages of 30). A part with a region but no
  * overlapping detection falls back to its region. A part without a region takes the best detection of its class
- * when no other part uses that class; anything else is not found.
+ * when no other part uses that class; anything else is not found. Returns one entry per field, in the order given.
  */
 export function locateFields(
-  fields: readonly FieldSpec[],
+  fields: readonly ResolvedField[],
   detections: readonly Detection[],
   refToPage: Affine,
   options: LocateOptions = DEFAULT_LOCATE,
@@ -82,7 +83,7 @@ export function locateFields(
     list.push(located[i]);
     byField.set(p.field, list);
   });
-  return fields.map((field) => ({ field, parts: byField.get(field) ?? [] }));
+  return fields.map(({ spec }) => ({ field: spec, parts: byField.get(spec) ?? [] }));
 }
 
 /** A part the schema gives no region: the best detection of its class, the only part that uses it. */

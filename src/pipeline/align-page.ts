@@ -5,11 +5,11 @@ import type { Alignment, LayoutRegion } from '../page/alignment.js';
 import type { GrayImage } from '../image/raster.js';
 import type { PageResult } from '../result/document.js';
 import type { LoadedSchema } from '../schema/load.js';
-import { referencePageImage } from './reference-images.js';
+import type { ReferencePages } from './reference-pages.js';
 
 /** The schema's regions on one reference page, with the detector class that should find each. */
 export function layoutRegions(loaded: LoadedSchema, pageIndex: number): LayoutRegion[] {
-  const fields = loaded.schema.fields.filter((f) => f.page === pageIndex);
+  const fields = loaded.fields.filter((f) => f.spec.page === pageIndex);
   return expectedParts(fields).flatMap((p) => (p.region ? [{ box: p.region, className: p.className }] : []));
 }
 
@@ -19,9 +19,10 @@ export async function alignToSchemaPage(
   pageIndex: number,
   page: GrayImage,
   detections: readonly Detection[],
+  references: ReferencePages,
 ): Promise<Alignment> {
   const referenceSize = loaded.schema.pages[pageIndex];
-  const reference = await referencePageImage(loaded, pageIndex);
+  const reference = references.page(loaded, pageIndex);
   return alignPage({ page, referenceSize, reference, detections, regions: layoutRegions(loaded, pageIndex) });
 }
 

@@ -4,7 +4,7 @@ import { LAYOUT_MIN_SCORE, matchLayout } from '../page/layout-match.js';
 import type { GrayImage } from '../image/raster.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { alignToSchemaPage, layoutRegions } from './align-page.js';
-import { referencePageImage } from './reference-images.js';
+import type { ReferencePages } from './reference-pages.js';
 
 export interface LayoutChoice {
   schema: LoadedSchema;
@@ -27,10 +27,11 @@ export async function chooseLayout(
   schemas: readonly LoadedSchema[],
   page: GrayImage,
   detections: readonly Detection[],
+  references: ReferencePages,
 ): Promise<LayoutChoice> {
   if (schemas.length === 0) throw new Error('chooseLayout needs at least one schema');
   if (schemas.length === 1) {
-    const alignment = await alignToSchemaPage(schemas[0], 0, page, detections);
+    const alignment = await alignToSchemaPage(schemas[0], 0, page, detections, references);
     const score = Math.round(alignment.score * 1000) / 1000;
     // A page registered to the blank worse than any page of its own layout is another form, one schema or several
     // (a garden-plot page read with the marina schema had fields "accepted"). The threshold is an image
@@ -39,19 +40,17 @@ export async function chooseLayout(
     const status = byImage && alignment.score < LAYOUT_MIN_SCORE ? 'unknown_layout' : 'assigned';
     return { schema: schemas[0], alignment, status, score, candidates: [{ schema: schemas[0].schema.form.name, score }] };
   }
-  const candidates = await Promise.all(
-    schemas.map(async (s) => ({
-      name: s.schema.form.name,
-      referenceSize: s.schema.pages[0],
-      reference: await referencePageImage(s, 0),
-      regions: layoutRegions(s, 0),
-    })),
-  );
+  const candidates = schemas.map((s) => ({
+    name: s.schema.form.name,
+    referenceSize: s.schema.pages[0],
+    reference: references.page(s, 0),
+    regions: layoutRegions(s, 0),
+  }));
   // The threshold is matchLayout's own default, measured in bench/page-align.ts.
   const match = matchLayout(page, candidates, { detections });
   const bestName = match.best ?? [...match.scores].sort((a, b) => b.score - a.score)[0].name;
   const schema = schemas.find((s) => s.schema.form.name === bestName) as LoadedSchema;
-  const alignment = await alignToSchemaPage(schema, 0, page, detections);
+  const alignment = await alignToSchemaPage(schema, 0, page, detections, references);
   return {
     schema,
     alignment,

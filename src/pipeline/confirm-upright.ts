@@ -2,7 +2,7 @@ import type { Detection, Detector } from '../detect/types.js';
 import { confirmHalfTurn } from '../page/half-turn.js';
 import type { NormalizedPage } from '../page/normalize.js';
 import type { LoadedSchema } from '../schema/load.js';
-import { referencePageImage } from './reference-images.js';
+import type { ReferencePages } from './reference-pages.js';
 
 /** A normalized page and what the detector found on it; replaced in place when the page is turned. */
 export interface DetectedPage {
@@ -19,11 +19,18 @@ export interface DetectedPage {
  * (within `pages`) that were turned. `knownScore` is the first page's registration score when the layout choice
  * already computed it against this schema's blank, so the page is not registered twice.
  */
-export async function confirmUpright(pages: DetectedPage[], loaded: LoadedSchema, detector: Detector, from = 0, knownScore?: number): Promise<number[]> {
+export async function confirmUpright(
+  pages: DetectedPage[],
+  loaded: LoadedSchema,
+  references: ReferencePages,
+  detector: Detector,
+  from = 0,
+  knownScore?: number,
+): Promise<number[]> {
   const turned: number[] = [];
   for (const [p, page] of pages.entries()) {
     if (p < from) continue;
-    const reference = await referencePageImage(loaded, p);
+    const reference = references.page(loaded, p);
     if (!reference) continue;
     const check = confirmHalfTurn(page.normalized, reference, { knownScore: p === 0 ? knownScore : undefined });
     if (!check.flipped) continue;

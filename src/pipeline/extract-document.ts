@@ -3,7 +3,6 @@ import { performance } from 'node:perf_hooks';
 import type { Detection, Detector } from '../detect/types.js';
 import { legibilityFactors } from '../fields/legibility.js';
 import type { ReasonCode } from '../fields/reasons.js';
-import { getFieldType } from '../fields/registry.js';
 import type { DecodeLimits } from '../input/decode.js';
 import { DEFAULT_LIMITS, openDocument } from '../input/decode.js';
 import { DEFAULT_LOCATE, locateFields, type LocatedField } from '../locate/locate-fields.js';
@@ -27,17 +26,19 @@ import { chooseLayout } from './choose-layout.js';
 import { confirmUpright } from './confirm-upright.js';
 import { buildFieldResult } from './field-result.js';
 import { readLocatedField, type FieldReadOutcome } from './read-field.js';
-import { referencePageImage } from './reference-images.js';
+import { ReferencePages } from './reference-pages.js';
 import { refineRegionParts } from './refine-regions.js';
 import { settleScripts } from './second-read.js';
 import type { DigitReader } from '../read/digit-reader.js';
-import { sharedOcrEngine } from '../read/ocr-engine.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import { StageClock, type StageTimes } from '../results/stage-times.js';
 
 export interface ExtractOptions {
   /** One schema, or several: each document is assigned to the layout its first page aligns with best. */
   schema: LoadedSchema | readonly LoadedSchema[];
   detector: Detector;
+  /** The OCR engine every text read goes through; the caller creates and closes it, as it does the detector. */
+  ocr: OcrEngine;
   /** Id used for the result's file name; default: the file name without extension. */
   documentId?: string;
   /**
@@ -61,6 +62,11 @@ export interface ExtractOptions {
   dropout?: boolean;
   /** Digit reader for digit combs (src/read/digit-reader.ts); the caller opens and closes it. Absent: Tesseract alone. */
   digitReader?: DigitReader;
+  /**
+   * The schemas' blank pages, decoded by the caller that sets up a run of many files (ReferencePages.decode).
+   * Absent: this call decodes them before its first page.
+   */
+  references?: ReferencePages;
   /**
    * A person's answer that the document is the form of the one schema given (review/layout-question.ts): the layout
    * is taken as assigned whatever its fit score, and the answer is kept in the record's layout block.
@@ -95,6 +101,7 @@ interface PreparedPage {
  */
 export async function* extractForms(input: string | Buffer, options: ExtractOptions): AsyncGenerator<ExtractedDocument> {
   const schemas = Array.isArray(options.schema) ? options.schema : [options.schema as LoadedSchema];
+  const references = options.references ?? (await ReferencePages.decode(schemas));
   const doc = await openDocument(input, options.limits ?? DEFAULT_LIMITS);
   try {
     const prepare = async (index: number, clock: StageClock): Promise<PreparedPage> => {
@@ -114,10 +121,10 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
     const stem = options.documentId ?? (typeof input === 'string' ? path.parse(input).name : doc.sha256.slice(0, 12));
     for (let first = 0; first < doc.pageCount; ) {
       const clock = new StageClock();
-      const ocrBefore = sharedOcrEngine().busyMs;
+      const ocrBefore = options.ocr.busyMs;
       const head = await prepare(first, clock);
       const started = performance.now();
-      const chosen = () => chooseLayout(schemas, head.normalized.image, head.detections);
+      const chosen = () => chooseLayout(schemas, head.normalized.image, head.detections, references);
       const choose = () =>
         clock.time('align', async () => (options.layoutFromReview ? { ...(await chosen()), status: 'assigned' as const } : chosen()));
       let choice = await choose();
@@ -127,23 +134,24 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       // The layout choice registered this page by image already; its score stands for the upright registration.
       const known = choice.alignment.method.startsWith('image') ? choice.alignment.score : undefined;
       // The upright check's own detector runs count as alignment: they exist only to settle the page's turn.
-      if (upright && (await clock.time('align', () => confirmUpright([head], choice.schema, options.detector, 0, known))).length > 0)
+      if (upright && (await clock.time('align', () => confirmUpright([head], choice.schema, references, options.detector, 0, known))).length > 0)
         choice = await choose();
       const count = Math.min(choice.schema.schema.pages.length, doc.pageCount - first);
       const formPages = [head];
       for (let i = 1; i < count; i++) formPages.push(await prepare(first + i, clock));
-      if (upright && count > 1) await clock.time('align', () => confirmUpright(formPages, choice.schema, options.detector, 1));
+      if (upright && count > 1) await clock.time('align', () => confirmUpright(formPages, choice.schema, references, options.detector, 1));
       const stacked = first > 0 || first + count < doc.pageCount;
       const id = stacked ? `${stem}.p${first + 1}` : stem;
       const result = await extractForm(formPages, choice, schemas.length, {
         ...options,
+        references,
         id,
         source: options.recordedAs ?? (typeof input === 'string' ? recordedPath(input) : '<buffer>'),
         sha256: doc.sha256,
         clock,
       });
       result.seconds = Math.round(performance.now() - started + formPages.reduce((a, p) => a + p.ms, 0)) / 1000;
-      clock.ms.ocr = sharedOcrEngine().busyMs - ocrBefore;
+      clock.ms.ocr = options.ocr.busyMs - ocrBefore;
       yield { result, pages: formPages.map((p) => p.source), stages: clock.ms };
       first += count;
     }
@@ -169,9 +177,9 @@ async function extractForm(
   formPages: readonly PreparedPage[],
   choice: LayoutChoice,
   candidates: number,
-  options: ExtractOptions & { id: string; source: string; sha256: string; clock: StageClock },
+  options: ExtractOptions & { id: string; source: string; sha256: string; clock: StageClock; references: ReferencePages },
 ): Promise<DocumentResult> {
-  const { detector, clock } = options;
+  const { detector, clock, references } = options;
   const loaded = choice.schema;
   const schema = loaded.schema;
   const typeContext = { today: options.today ?? new Date() };
@@ -181,7 +189,7 @@ async function extractForm(
 
   for (const [p, { normalized, detections, source, index }] of formPages.entries()) {
     const alignment: Alignment =
-      p === 0 ? choice.alignment : await clock.time('align', () => alignToSchemaPage(loaded, p, normalized.image, detections));
+      p === 0 ? choice.alignment : await clock.time('align', () => alignToSchemaPage(loaded, p, normalized.image, detections, references));
     const misfit = alignmentProblem(alignment) !== null;
     pages.push({
       index: p,
@@ -194,12 +202,12 @@ async function extractForm(
       detections: detections.length,
     });
     const toSource = invertAffine(normalized.transform);
-    const pageFields = schema.fields.filter((f) => f.page === p);
+    const pageFields = loaded.fields.filter((f) => f.spec.page === p);
     // The page gate's second half: a page that does not fit its layout is not read (its boxes would be guesses,
     // some off the page); each of its fields goes to review.
     if (misfit) {
       const why: ReasonCode[] = choice.status === 'unknown_layout' ? ['unknown_layout', 'page_not_aligned'] : ['page_not_aligned'];
-      fields.push(...pageFields.map((f) => unreadField(f, 'page_not_aligned', ...why)));
+      fields.push(...pageFields.map((f) => unreadField(f.spec, 'page_not_aligned', ...why)));
       continue;
     }
     const { located, reference, ocrPage } = await clock.time('locate', async () => {
@@ -207,18 +215,18 @@ async function extractForm(
         ...DEFAULT_LOCATE,
         preferRegion: alignment.method === 'image' || alignment.method === 'image+detections',
       });
-      const reference = await referencePageImage(loaded, p);
+      const reference = references.page(loaded, p);
       if (reference) refineRegionParts(located, normalized.image, reference, alignment.refToPage);
       const ocrPage = options.dropout && reference ? dropoutForm(normalized.image, reference, alignment.refToPage).image : undefined;
       return { located, reference, ocrPage };
     });
-    for (const lf of located) {
+    for (const [i, lf] of located.entries()) {
       if (lf.parts.some((part) => part.box && !boxOnPage(part.box, normalized.image))) {
         fields.push(unreadField(lf.field, 'off_page', 'off_page'));
         continue;
       }
-      const type = getFieldType(lf.field.type);
-      const typeOptions = type.options.parse(lf.field.options ?? {});
+      // locateFields answers field by field in the order given.
+      const { type, options: typeOptions } = pageFields[i];
       const outcome = await clock.time('read', () =>
         readLocatedField(lf, type, typeOptions, {
           page: normalized.image,
@@ -227,6 +235,7 @@ async function extractForm(
           padding: schema.defaults.padding,
           typeContext,
           digitReader: options.digitReader,
+          ocr: options.ocr,
         }),
       );
       read.push({ lf, outcome, toSource, alignment });

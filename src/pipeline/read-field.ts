@@ -11,6 +11,7 @@ import type { LocatedField, LocatedPart } from '../locate/locate-fields.js';
 import type { BlankPart } from '../read/blank-crop.js';
 import { readDigitComb } from '../read/digit-comb.js';
 import type { DigitReader } from '../read/digit-reader.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import { crossCheckDigits, isDigitComb } from './digit-cross-check.js';
 import { scriptMeasures } from '../read/script-measures.js';
 import { scriptInputs, type ScriptDecision, type ScriptInputs } from '../fields/script.js';
@@ -42,6 +43,8 @@ export interface ReadFieldContext {
   reference?: GrayImage;
   /** Reads digit combs cell by cell beside Tesseract (digit-cross-check.ts); absent: Tesseract alone. */
   digitReader?: DigitReader;
+  /** The run's OCR engine (the caller creates and closes it). */
+  ocr: OcrEngine;
 }
 
 /**
@@ -71,6 +74,7 @@ export async function readLocatedField(
     const hints = { ...(type.ocrDefaults?.(options) ?? {}), ...(field.ocr ?? {}) };
     const blank = blankPart(ctx, located.parts[0]);
     const read = await readTextField(ctx.ocrPage ?? ctx.page, box, {
+      engine: ctx.ocr,
       padding,
       mode: hints.mode ?? 'line',
       allowed: hints.allowed,
@@ -121,7 +125,7 @@ export async function readLocatedField(
         : digitReader
           ? () => glyphSecondRead(cropField(ctx.page, box, 0).image, kept, digitReader)
           : () =>
-            secondRead(ctx.ocrPage ?? ctx.page, box, kept, { padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
+            secondRead(ctx.ocrPage ?? ctx.page, box, kept, { engine: ctx.ocr, padding, mode: hints.mode ?? 'line', allowed: hints.allowed, comb: field.class === 'comb_field', blank }, (r) =>
               type.interpret(withoutPrintedLabel(r, field.label), options, ctx.typeContext),
             );
     }

@@ -4,6 +4,7 @@ import type { Box } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 import type { BlankPart } from '../read/blank-crop.js';
 import type { Padding } from '../read/crop.js';
+import type { OcrEngine } from '../read/ocr-engine.js';
 import { readTextField } from '../read/read-text.js';
 import type { CleanupVariant } from '../read/cleanup/pipeline.js';
 import { ADAPTIVE, STANDARD } from '../read/variants.js';
@@ -38,7 +39,7 @@ export async function secondRead(
   page: GrayImage,
   box: Box,
   kept: { reading: TextReading; interpretation: Interpretation },
-  read: { padding: Padding; mode: OcrMode; allowed?: string; comb: boolean; blank?: BlankPart },
+  read: { engine: OcrEngine; padding: Padding; mode: OcrMode; allowed?: string; comb: boolean; blank?: BlankPart },
   interpret: (r: TextReading) => Interpretation,
 ): Promise<SecondRead> {
   const variant = secondVariant(kept.reading.variant);

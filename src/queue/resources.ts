@@ -2,6 +2,8 @@ import { loadDetector } from '../detect/onnx-detector.js';
 import type { Detector } from '../detect/types.js';
 import { configError } from '../errors.js';
 import { DigitReader } from '../read/digit-reader.js';
+import { OcrEngine } from '../read/ocr-engine.js';
+import { ReferencePages } from '../pipeline/reference-pages.js';
 import { checkReferenceImages } from '../schema/blank-images.js';
 import { checkSchemaAgainstClasses } from '../schema/consistency.js';
 import { loadSchema, type LoadedSchema } from '../schema/load.js';
@@ -24,6 +26,10 @@ export interface Offered {
  */
 export class WorkerResources {
   private readonly schemas = new Map<string, LoadedSchema>();
+  /** The blanks of every schema met so far, decoded when the schema is first loaded. */
+  readonly references = new ReferencePages();
+  /** The OCR engine every job of this process reads with (tesseract.js serializes its reads in any case). */
+  readonly ocr = new OcrEngine();
   private readonly detectors = new Map<string, Detector>();
   private readonly digitReaders = new Map<string, Promise<DigitReader>>();
 
@@ -49,6 +55,7 @@ export class WorkerResources {
     if (loaded.sha256 !== want.sha256) throw configError(loaded.path, 'schema changed while it was loaded');
     const missing = await checkReferenceImages(loaded);
     if (missing.length > 0) throw configError(loaded.path, missing[0]);
+    await this.references.add([loaded]);
     this.schemas.set(want.sha256, loaded);
     return loaded;
   }
@@ -89,5 +96,6 @@ export class WorkerResources {
   async close(): Promise<void> {
     for (const d of this.detectors.values()) await d.close();
     for (const r of this.digitReaders.values()) await (await r.catch(() => null))?.close();
+    await this.ocr.close();
   }
 }

@@ -59,7 +59,7 @@ async function processJob(job: Job, redis: Redis, resources: WorkerResources): P
     throw new Error(`${p.recorded}: cannot read the input on this worker (${(err as NodeJS.ErrnoException).code ?? oneLine(err)}); is the shared folder mounted at ${p.input.path}?`);
   }
   if (sha !== p.input.sha256) throw new UnrecoverableError(`${p.recorded}: the file changed after it was submitted (sha256 differs); submit it again`);
-  const setup = { schemas, detector, digitReader, outDir: p.outDir, deskew: p.deskew, orientation: p.orientation, dropout: p.dropout };
+  const setup = { schemas, references: resources.references, ocr: resources.ocr, detector, digitReader, outDir: p.outDir, deskew: p.deskew, orientation: p.orientation, dropout: p.dropout };
   const input = { file: p.input.path, recorded: p.recorded, stem: p.stem, earlierJson: p.earlierJson };
   const outcome = await readInput(input, setup, (requested) => claimId(redis, p.claimsKey, requested, p.recorded));
   await writeInputOutcome(p.outDir, { path: p.recorded, lines: outcome.lines });

@@ -61,8 +61,10 @@ export function whitelist(allowed: string | undefined): string {
 }
 
 /**
- * One tesseract.js worker, created on first use and reused for every crop. Calls are serialized because the
- * page-segmentation mode and whitelist are worker-wide parameters set right before each recognize.
+ * One tesseract.js worker, started on the first read and reused for every crop. Whoever creates an engine closes
+ * it, as with a detector session: a run (the CLI, a batch worker thread, a queue worker, a test file) makes one and
+ * hands it to every read. Calls are serialized because the page-segmentation mode and whitelist are worker-wide
+ * parameters set right before each recognize.
  */
 export class OcrEngine {
   private worker: Promise<Worker> | null = null;
@@ -119,19 +121,4 @@ export class OcrEngine {
     this.lastParams = '';
     if (w) await (await w).terminate();
   }
-}
-
-let shared: OcrEngine | null = null;
-
-/** The process-wide engine (one worker per process). */
-export function sharedOcrEngine(): OcrEngine {
-  shared ??= new OcrEngine();
-  return shared;
-}
-
-/** Close the process-wide engine at the end of a run. */
-export async function closeSharedOcrEngine(): Promise<void> {
-  const e = shared;
-  shared = null;
-  if (e) await e.close();
 }

@@ -7,7 +7,7 @@ import { ADDED_INK_TOLERANCE } from './marks.js';
 import { cleanCrop, isBlank, ruleLengths, type CleanupVariant } from './cleanup/pipeline.js';
 import { removeDashedRules, removeRuledLines } from './cleanup/line-removal.js';
 import { cellImage, combCells, joinCells } from './comb-cells.js';
-import { sharedOcrEngine, type OcrEngine } from './ocr-engine.js';
+import type { OcrEngine } from './ocr-engine.js';
 import { ADAPTIVE, BINARY, COMB_CELLS, KEEP_LINES, STANDARD } from './variants.js';
 
 export interface ReadTextOptions {
@@ -27,8 +27,8 @@ export interface ReadTextOptions {
   characterHeight?: number;
   /** Cleanup recipes, the main one first; default defaultVariants(comb). */
   variants?: readonly CleanupVariant[];
-  /** OCR engine; default the process-wide one. */
-  engine?: OcrEngine;
+  /** The OCR engine of the run (the caller creates and closes it). */
+  engine: OcrEngine;
   /** The blank under the field, when the schema names one: only its printed rules are removed. */
   blank?: BlankPart;
 }
@@ -82,8 +82,7 @@ export async function readVariant(
     printed: options.printed,
   });
   if (isBlank(cleaned)) return { kind: 'text', text: '', words: [], confidence: 1, variant: variant.name, blank: true };
-  const engine = options.engine ?? sharedOcrEngine();
-  const reading = await engine.read(cleaned, { mode, allowed: options.allowed });
+  const reading = await options.engine.read(cleaned, { mode, allowed: options.allowed });
   return { ...reading, variant: variant.name, blank: false };
 }
 
@@ -111,7 +110,7 @@ async function readCells(crop: FieldCrop, variant: CleanupVariant, options: Vari
     return readVariant(crop, { name: variant.name, steps: variant.steps }, { ...options, mode: 'line', comb: true });
   }
   const clean = removeDashedRules(ruled);
-  const engine = options.engine ?? sharedOcrEngine();
+  const { engine } = options;
   const chars: (string | null)[] = [];
   const words: OcrWord[] = [];
   for (const cell of cells) {
@@ -137,7 +136,7 @@ async function readCells(crop: FieldCrop, variant: CleanupVariant, options: Vari
  * accepted reading with the highest confidence is kept; if none is accepted the main reading stays. Each try is
  * recorded (variant, verdict, confidence) for the result's details.
  */
-export async function readTextField(page: GrayImage, box: Box, options: ReadTextOptions = {}): Promise<TextFieldReading> {
+export async function readTextField(page: GrayImage, box: Box, options: ReadTextOptions): Promise<TextFieldReading> {
   const crop = cropField(page, box, options.padding ?? 4);
   const variantOptions: VariantOptions = {
     ...options,

@@ -1,14 +1,13 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
-import { getFieldType } from '../fields/registry.js';
-import type { FieldType } from '../fields/types.js';
 import type { DocumentResult } from '../result/document.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { loadSchema } from '../schema/load.js';
+import type { ResolvedField } from '../schema/resolved-field.js';
 import { oneLine } from '../errors.js';
 
-/** A field's type and its parsed schema options, or why they cannot be had. */
-export type FieldTyping = { type: FieldType<any>; options: unknown } | { error: string };
+/** A field's type and its options as the schema resolved them at load, or why they cannot be had. */
+export type FieldTyping = Pick<ResolvedField, 'type' | 'options'> | { error: string };
 
 /**
  * The schema options of every field, loaded from the schema file each document records (schema.path), so a
@@ -39,15 +38,10 @@ export class FieldOptionsSource {
   async typing(doc: DocumentResult, fieldName: string, typeName: string): Promise<FieldTyping> {
     const loaded = await this.schema(doc.schema.path);
     if (typeof loaded === 'string') return { error: `schema of document "${doc.document.id}": ${loaded}` };
-    const spec = loaded.schema.fields.find((f) => f.name === fieldName);
-    if (!spec) return { error: `field "${fieldName}" is not in schema ${loaded.path}` };
-    if (spec.type !== typeName) return { error: `field "${fieldName}" is of type ${spec.type} in schema ${loaded.path}, ${typeName} in the result` };
-    try {
-      const type = getFieldType(typeName);
-      return { type, options: type.options.parse(spec.options ?? {}) };
-    } catch (err) {
-      return { error: `field "${fieldName}": ${oneLine(err)}` };
-    }
+    const field = loaded.fields.find((f) => f.spec.name === fieldName);
+    if (!field) return { error: `field "${fieldName}" is not in schema ${loaded.path}` };
+    if (field.spec.type !== typeName) return { error: `field "${fieldName}" is of type ${field.spec.type} in schema ${loaded.path}, ${typeName} in the result` };
+    return { type: field.type, options: field.options };
   }
 
   /** Schemas whose file changed since the documents were extracted (their corrections are checked by the new file). */

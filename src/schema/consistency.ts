@@ -1,26 +1,11 @@
-import { getFieldType } from '../fields/registry.js';
-import type { FieldPart } from '../fields/types.js';
-import type { FieldSpec, FormSchema } from './definition.js';
-
-type RegionTuple = [number, number, number, number];
-
-/** The boxes a field has on the page: one keyed by the field name, or one per printed box of a choice group. */
-export function fieldParts(field: FieldSpec): FieldPart[] {
-  const type = getFieldType(field.type);
-  const options = type.options.parse(field.options ?? {});
-  return type.parts ? type.parts(options, field.name, field.region) : [{ key: field.name, region: field.region }];
-}
-
-/** Every region a field uses: its own, and its parts' (a choice group's boxes). */
-export function fieldRegions(field: FieldSpec): { key: string; region: RegionTuple }[] {
-  return fieldParts(field).flatMap((p) => (p.region ? [{ key: p.key, region: p.region }] : []));
-}
+import type { FormSchema } from './definition.js';
+import { fieldRegions, resolveFields, type ResolvedField } from './resolved-field.js';
 
 /**
  * Checks zod cannot express: unique names, pages that exist, regions inside their page.
  * Returns one line per problem, each starting with the JSON path.
  */
-export function checkSchemaConsistency(schema: FormSchema): string[] {
+export function checkSchemaConsistency(schema: FormSchema, resolved: readonly ResolvedField[] = resolveFields(schema)): string[] {
   const problems: string[] = [];
   const seen = new Map<string, number>();
   schema.fields.forEach((field, i) => {
@@ -33,7 +18,7 @@ export function checkSchemaConsistency(schema: FormSchema): string[] {
       problems.push(`${at}.page: expected a page index below ${schema.pages.length} (found ${field.page})`);
       return;
     }
-    for (const { key, region } of fieldRegions(field)) {
+    for (const { key, region } of fieldRegions(resolved[i])) {
       const [x, y, w, h] = region;
       if (x + w > page.width + 0.5 || y + h > page.height + 0.5) {
         const which = key === field.name ? 'region' : `region of part "${key}"`;

@@ -6,13 +6,24 @@ import type { z } from 'zod';
 import { configError, oneLine } from '../errors.js';
 import { FormSchema } from './definition.js';
 import { checkSchemaConsistency } from './consistency.js';
+import { resolveFields, type ResolvedField } from './resolved-field.js';
 
-/** A schema file, validated, with where it came from. */
-export interface LoadedSchema {
+/** A schema file as read: validated, with where it came from (plain data: it crosses into worker threads). */
+export interface SchemaFile {
   schema: FormSchema;
   /** Absolute path of the schema file. */
   path: string;
   sha256: string;
+}
+
+/** A schema ready for reading: its file, and each field resolved once (type, typed options, parts), in the schema's order. */
+export interface LoadedSchema extends SchemaFile {
+  fields: readonly ResolvedField[];
+}
+
+/** Resolve a schema file's fields (for a file read earlier, or one that crossed into a worker thread as plain data). */
+export function resolveSchema(file: SchemaFile): LoadedSchema {
+  return { ...file, fields: resolveFields(file.schema) };
 }
 
 /** `fields[2].region[3]` from a zod issue path. */
@@ -46,6 +57,11 @@ export function describeIssue(issue: z.core.$ZodIssue, input: unknown): string {
 
 /** Parse and validate schema text; `file` names the source in errors. */
 export function parseSchemaText(text: string, file: string): FormSchema {
+  return parseAndResolve(text, file).schema;
+}
+
+/** Parse, validate and resolve schema text: the consistency checks need the resolved fields' parts. */
+function parseAndResolve(text: string, file: string): { schema: FormSchema; fields: ResolvedField[] } {
   const doc = parseDocument(text, { prettyErrors: false });
   if (doc.errors.length > 0) {
     const e = doc.errors[0];
@@ -67,12 +83,13 @@ export function parseSchemaText(text: string, file: string): FormSchema {
     const more = parsed.error.issues.length > 1 ? ` (+${parsed.error.issues.length - 1} more)` : '';
     throw configError(file, `${describeIssue(parsed.error.issues[0], input)}${more}`);
   }
-  const problems = checkSchemaConsistency(parsed.data);
+  const fields = resolveFields(parsed.data);
+  const problems = checkSchemaConsistency(parsed.data, fields);
   if (problems.length > 0) {
     const more = problems.length > 1 ? ` (+${problems.length - 1} more)` : '';
     throw configError(file, `${problems[0]}${more}`);
   }
-  return parsed.data;
+  return { schema: parsed.data, fields };
 }
 
 export async function loadSchema(file: string): Promise<LoadedSchema> {
@@ -84,12 +101,12 @@ export async function loadSchema(file: string): Promise<LoadedSchema> {
     const code = (err as NodeJS.ErrnoException).code;
     throw configError(file, code === 'ENOENT' ? 'schema file not found' : `cannot read schema file (${code ?? 'error'})`);
   }
-  const schema = parseSchemaText(bytes.toString('utf8'), file);
-  return { schema, path: abs, sha256: createHash('sha256').update(bytes).digest('hex') };
+  const { schema, fields } = parseAndResolve(bytes.toString('utf8'), file);
+  return { schema, fields, path: abs, sha256: createHash('sha256').update(bytes).digest('hex') };
 }
 
 /** Absolute path of a page's blank reference image, if the schema names one. */
-export function referenceImagePath(loaded: LoadedSchema, pageIndex: number): string | undefined {
+export function referenceImagePath(loaded: SchemaFile, pageIndex: number): string | undefined {
   const img = loaded.schema.pages[pageIndex]?.image;
   return img ? path.resolve(path.dirname(loaded.path), img) : undefined;
 }

@@ -31,7 +31,7 @@ describe('the library example in src/api.ts', () => {
     made.push(work);
     const api = path.join(REPO, 'src/api.js');
     // Every name the example uses comes from the one public module; nothing else is imported.
-    const source = `import { closeSharedOcrEngine, DEFAULT_MODEL_PATH, DigitReader, extractDocument, loadDetector, loadSchema, runBatch } from ${JSON.stringify(api)};\n` +
+    const source = `import { DEFAULT_MODEL_PATH, DigitReader, extractDocument, loadDetector, loadSchema, OcrEngine, runBatch } from ${JSON.stringify(api)};\n` +
       `process.chdir(${JSON.stringify(REPO)});\n` +
       `const out = ${JSON.stringify(path.join(work, 'out'))};\n` +
       lines.map((l) => l.replace("outDir: 'out'", 'outDir: out')).join('\n') + '\n';

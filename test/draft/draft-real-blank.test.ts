@@ -6,7 +6,7 @@ import { iou } from '../../src/image/geometry.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { OcrEngine } from '../../src/read/ocr-engine.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import { fieldRegions } from '../../src/schema/resolved-field.js';
 import { loadSchema } from '../../src/schema/load.js';
 import { W4_BLANK, W4_SCHEMA } from '../real-form/w4-layout.js';
 
@@ -48,7 +48,7 @@ describe('schema draft on a real blank with the shipped detector and OCR (IRS W-
     };
     const areas = draftedAreas(draft.fields);
     for (const [truthName, slug] of Object.entries(expected)) {
-      const [x, y, w, h] = fieldRegions(truth.schema.fields.find((f) => f.name === truthName)!)[0].region;
+      const [x, y, w, h] = fieldRegions(truth.fields.find((f) => f.spec.name === truthName)!)[0].region;
       const hit = areas.find((a) => iou(a.box, { x, y, w, h }) >= 0.5);
       expect(hit, truthName).toBeDefined();
       expect(hit!.field.name).toBe(slug);

@@ -11,14 +11,15 @@ import { iou } from '../../src/image/geometry.js';
 import { normalizePage } from '../../src/page/normalize.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { extractDocument } from '../../src/pipeline/extract-document.js';
-import { closeSharedOcrEngine, sharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { draftSchema } from '../../src/draft/from-image.js';
 import { loadSchema, referenceImagePath } from '../../src/schema/load.js';
 import { generateSamples } from '../../src/synth/generate.js';
 
 const REPO = path.resolve(import.meta.dirname, '../..');
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 /**
  * A new layout defined by schema alone: garden-plot was never used to train the detector (training draws random
@@ -32,7 +33,6 @@ describe('draft, edit, extract a layout the detector never saw', () => {
     const blankFile = referenceImagePath(truthSchema, 0)!;
     const blank = normalizePage(await grayFromImage(blankFile)).image;
     const detector = await loadDetector(DEFAULT_MODEL_PATH);
-    const ocr = sharedOcrEngine();
     const draft = await draftSchema([blank], [await detector.detect(blank)], async (c) => (await ocr.read(c, { mode: 'line' })).text, {
       formName: 'garden-plot-draft',
       referenceImages: ['blank.png'],
@@ -42,9 +42,10 @@ describe('draft, edit, extract a layout the detector never saw', () => {
     // with the field's name, type and options; drafted areas that stand for nothing are deleted.
     const edited: Record<string, unknown>[] = [];
     const used = new Set<number>();
-    for (const field of truthSchema.schema.fields) {
+    for (const resolved of truthSchema.fields) {
+      const field = resolved.spec;
       if (field.type === 'choice') continue; // a group of boxes: re-drawn by hand in practice, not a drafting check
-      const part = expectedParts([field])[0];
+      const part = expectedParts([resolved])[0];
       let best = -1;
       let bestIou = 0.5;
       draft.fields.forEach((d, i) => {
@@ -89,7 +90,7 @@ describe('draft, edit, extract a layout the detector never saw', () => {
     for (let i = 0; i < 3; i++) {
       const stem = `garden-plot-900777-0000${i}`;
       const truth = JSON.parse(await readFile(path.join(gen, 'truth', `${stem}.json`), 'utf8'));
-      const { result } = await extractDocument(path.join(gen, `${stem}.png`), { schema, detector });
+      const { result } = await extractDocument(path.join(gen, `${stem}.png`), { ocr, schema, detector });
       for (const f of result.fields) {
         const t = truth.fields.find((x: { name: string }) => x.name === f.name);
         total++;

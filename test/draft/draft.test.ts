@@ -66,7 +66,7 @@ describe('draftSchema on a demo blank with its areas given', () => {
     // The demo schema (written with the form's layout) is the answer key: its labels are what the form prints.
     const loaded = await loadSchema('schemas/clinic-intake.yaml');
     const page = await grayFromImage('schemas/clinic-intake.blank.png');
-    const dets = expectedParts(loaded.schema.fields).flatMap((p) => (p.region ? [det(p.region, p.className)] : []));
+    const dets = expectedParts(loaded.fields).flatMap((p) => (p.region ? [det(p.region, p.className)] : []));
     const draft = await draftSchema([page], [dets], readLabel, { formName: 'clinic-draft', referenceImages: ['clinic-intake.blank.png'] });
     let labels = 0;
     let types = 0;

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
+import { OcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
 import { runCalibrate } from '../../src/eval/calibration-run.js';
 import { formatCalibration } from '../../src/eval/calibration-table.js';
 import { errorUpperBound } from '../../src/eval/target-check.js';
@@ -19,8 +19,9 @@ import { parseSchemaText } from '../../src/schema/load.js';
 
 const repo = path.resolve(import.meta.dirname, '../..');
 const dirs: string[] = [];
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
   for (const d of dirs) await rm(d, { recursive: true, force: true });
 });
 
@@ -34,7 +35,7 @@ describe('calibrate from a reviewed results folder', () => {
     // their schema regions on the real scans and most land in the review queue, giving the person plenty to label.
     const detector = await loadDetector(path.join(repo, 'test/fixtures/models/square-scores.onnx'), { intraOpThreads: 1 });
     const inputs = ['clinic-intake-typed.png', 'clinic-intake-batch.tif'].map((f) => path.join(repo, 'samples', f));
-    const report = await extractBatch({ inputs, schemas: [schema], detector, outDir: out });
+    const report = await extractBatch({ ocr, inputs, schemas: [schema], detector, outDir: out });
     await detector.close();
     expect(report.lines.every((l) => !l.error)).toBe(true);
 

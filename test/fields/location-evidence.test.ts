@@ -7,7 +7,7 @@ import { alignByImage } from '../../src/page/align-image.js';
 import { transformBox } from '../../src/image/geometry.js';
 import { refineRegion } from '../../src/page/local-refine.js';
 import { fromRawBuffer } from '../../src/image/raster.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { TODAY } from './context.js';
 import { filledRealForm, scanLike } from '../page/fill-real-form.js';
@@ -19,7 +19,8 @@ import { realBlank } from '../page/real-form.js';
  * libvips (sharp) at a scale, shift and tilt, registered by our image alignment, touched up by refineRegion, and
  * the entry read by the real tesseract.js.
  */
-afterAll(() => closeSharedOcrEngine());
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 // "Maren T." typed into the first-name cell of the W-4 (test/page/fill-real-form.ts): the cell below its printed
 // label, as a schema drawn for reading without dropout would give it.
@@ -42,7 +43,7 @@ describe('location factor from alignment evidence', () => {
 
     const type = getFieldType('text');
     const options = type.options.parse({});
-    const read = await readTextField(scan.page, box, { accept: (r) => type.interpret(r, options, { today: TODAY }).outcome === 'valid' });
+    const read = await readTextField(scan.page, box, { engine: ocr, accept: (r) => type.interpret(r, options, { today: TODAY }).outcome === 'valid' });
     const interpretation = type.interpret(read.reading, options, { today: TODAY });
     // What was typed, by the real OCR (the test's own invented entry).
     expect(String(interpretation.value)).toContain('Maren');

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { readTextField } from '../../src/read/read-text.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import { scoreField } from '../../src/fields/scoring.js';
 import type { FieldType } from '../../src/fields/types.js';
@@ -20,7 +20,7 @@ async function readField(type: string, written: string, options: unknown, font: 
   const ctx = { today: TODAY };
   const { page, box } = await entryBox(written, font);
   const hints = t.ocrDefaults?.(o) ?? {};
-  const read = await readTextField(page, box, {
+  const read = await readTextField(page, box, { engine: ocr,
     mode: hints.mode,
     allowed: hints.allowed,
     accept: (r) => t.interpret(r, o, ctx).outcome === 'valid',
@@ -30,7 +30,8 @@ async function readField(type: string, written: string, options: unknown, font: 
   return { interpretation, score, text: read.reading.text };
 }
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 describe('OCR-read field types on rendered crops', () => {
   it.each([

@@ -3,7 +3,7 @@ import type { FontKey } from '../../src/image/fonts.js';
 import { entryBox } from './entry-box.js';
 import { cropGray } from '../../src/image/raster.js';
 import { readTextField } from '../../src/read/read-text.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { scriptMeasures } from '../../src/read/script-measures.js';
 import { decideScript, decideScripts, scriptInputs, ScriptModel, SHIPPED_SCRIPT_MODEL, SCRIPT_FEATURES, type ScriptInputs } from '../../src/fields/script.js';
 
@@ -17,11 +17,12 @@ async function decide(text: string, font: FontKey, size: number) {
   const { page, box } = await entryBox(text, font, size, 440);
   const measures = scriptMeasures(cropGray(page, box));
   expect(measures).not.toBeNull();
-  const read = await readTextField(page, box);
+  const read = await readTextField(page, box, { engine: ocr });
   return decideScript(scriptInputs(measures!, read.reading));
 }
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 describe('print or handwriting', () => {
   it('the shipped model file is a valid model', () => {
@@ -47,7 +48,7 @@ describe('print or handwriting', () => {
   it("takes the form's other entries as evidence (one writer, one pen)", async () => {
     const entry = async (text: string, font: FontKey, size: number) => {
       const { page, box } = await entryBox(text, font, size, 440);
-      return scriptInputs(scriptMeasures(cropGray(page, box))!, (await readTextField(page, box)).reading);
+      return scriptInputs(scriptMeasures(cropGray(page, box))!, (await readTextField(page, box, { engine: ocr })).reading);
     };
     const hand = [await entry('Maple Cove', 'caveat', 38), await entry('Juniper Ashgrove', 'pen', 38), await entry('14 Harbour Lane', 'caveat', 38)];
     const typed = [await entry('Maple Cove', 'sans', 26), await entry('Juniper Ashgrove', 'serif', 26), await entry('14 Harbour Lane', 'sans', 26)];

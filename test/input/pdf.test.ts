@@ -6,14 +6,15 @@ import { loadDetector } from '../../src/detect/onnx-detector.js';
 import { decodeDocument, DEFAULT_LIMITS } from '../../src/input/decode.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { extractDocument } from '../../src/pipeline/extract-document.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { loadSchema } from '../../src/schema/load.js';
 
 const REPO = path.resolve(import.meta.dirname, '../..');
 // The bundled garden-plot sample wrapped in a one-page PDF (a JPEG image on a US-letter page), as a scanner writes it.
 const PDF = path.join(REPO, 'test/fixtures/pdf/garden-plot-typed.pdf');
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 describe('scanned PDF input', () => {
   it('renders each page at 200 DPI: US letter (8.5 x 11 in) becomes 1700 x 2200 pixels', async () => {
@@ -41,7 +42,7 @@ describe('scanned PDF input', () => {
   it('extracts the form inside the PDF like the image it holds', async () => {
     const schema = await loadSchema(path.join(REPO, 'schemas/garden-plot.yaml'));
     const detector = await loadDetector(DEFAULT_MODEL_PATH);
-    const { result } = await extractDocument(PDF, { schema, detector });
+    const { result } = await extractDocument(PDF, { ocr, schema, detector });
     const truth = JSON.parse(await readFile(path.join(REPO, 'samples/truth/garden-plot-typed.json'), 'utf8'));
     const exact = result.fields.filter((f) => {
       const t = truth.fields.find((x: { name: string }) => x.name === f.name);

@@ -3,6 +3,7 @@ import type { Detection } from '../../src/detect/types.js';
 import { locateFields } from '../../src/locate/locate-fields.js';
 import { IDENTITY } from '../../src/image/geometry.js';
 import { parseSchemaText } from '../../src/schema/load.js';
+import { resolveFields } from '../../src/schema/resolved-field.js';
 
 const schema = parseSchemaText(
   `
@@ -52,7 +53,7 @@ describe('locating fields', () => {
       det('signature_area', ...onPage(100, 1200, 500, 80), 0.95),
       det('signature_area', ...onPage(90, 1190, 520, 90), 0.5),
     ];
-    const located = locateFields(schema.fields, dets, refToPage);
+    const located = locateFields(resolveFields(schema), dets, refToPage);
     const byName = new Map(located.map((l) => [l.field.name, l]));
     expect(byName.get('boat_name')!.parts[0]).toMatchObject({ source: 'detection', box: dets[1].box });
     expect(byName.get('owner_name')!.parts[0]).toMatchObject({ source: 'detection', box: dets[0].box });
@@ -72,7 +73,7 @@ describe('locating fields', () => {
   it('never gives one detection to two fields', () => {
     // One box halfway between the two name rows: it may stand for one of them at most.
     const dets = [det('text_entry', ...onPage(100, 150, 400, 50))];
-    const located = locateFields(schema.fields, dets, refToPage, { minMatch: 0.2, preferRegion: false });
+    const located = locateFields(resolveFields(schema), dets, refToPage, { minMatch: 0.2, preferRegion: false });
     const used = located.flatMap((l) => l.parts).filter((p) => p.source === 'detection');
     expect(used.length).toBeLessThanOrEqual(1);
   });
@@ -89,7 +90,7 @@ fields:
       'custom.yaml',
     );
     const dets: Detection[] = [{ box: { x: 700, y: 900, w: 200, h: 40 }, classId: 0, className: 'member_number', score: 0.9 }];
-    const located = locateFields(custom.fields, dets, IDENTITY);
+    const located = locateFields(resolveFields(custom), dets, IDENTITY);
     // The only detection of the class lies elsewhere: another box, not this field's; the aligned region is read.
     expect(located[0].parts[0]).toMatchObject({ source: 'region', box: { x: 100, y: 100, w: 300, h: 50 }, reasons: ['region_fallback'] });
     expect(located[1].parts[0]).toMatchObject({ source: 'none', box: null, reasons: [] });

@@ -1,9 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { DD293_BLANK, extractWithShippedModel, filledBlank, schemaOnBlank } from '../real-form/blank-variant.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 describe('an upright page of a form printed in capitals', () => {
@@ -25,7 +26,7 @@ describe('an upright page of a form printed in capitals', () => {
       '',
       DD293_BLANK,
     );
-    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-upright');
+    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-upright', ocr);
     expect(result.pages[0].rotation).toBe(0);
     expect(result.pages[0].alignment!.score).toBeGreaterThan(0.8);
     expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Quillfeather');

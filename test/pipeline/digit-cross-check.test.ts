@@ -10,7 +10,7 @@ import { readLocatedField } from '../../src/pipeline/read-field.js';
 import { cropField } from '../../src/read/crop.js';
 import { readDigitComb, type DigitCombReading } from '../../src/read/digit-comb.js';
 import { DigitReader } from '../../src/read/digit-reader.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { FieldSpec } from '../../src/schema/definition.js';
 import { digitCombStrip } from '../../src/synth/digit-comb-strip.js';
 import { testIndices } from '../../src/synth/mnist-digits.js';
@@ -79,12 +79,13 @@ describe('crossCheckDigits (pure)', () => {
 
 describe('digit combs through read-field (real pixels, real OCR, real model)', () => {
   let reader: DigitReader;
+  const engine = new OcrEngine();
   beforeAll(async () => {
     reader = await DigitReader.open();
   });
   afterAll(async () => {
     await reader.close();
-    await closeSharedOcrEngine();
+    await engine.close();
   });
 
   it('sends a field to review when a confident Tesseract read and the digit reader disagree, else keeps the digits', async () => {
@@ -100,7 +101,7 @@ describe('digit combs through read-field (real pixels, real OCR, real model)', (
         field: spec,
         parts: [{ key: spec.name, box: strip.box, source: 'detection', detectionScore: 0.9, expected: null, region: null, reasons: [] }],
       };
-      const ctx = { page: strip.image, padding: 4, typeContext: { today: new Date() } };
+      const ctx = { page: strip.image, padding: 4, typeContext: { today: new Date() }, ocr: engine };
       const alone = await readLocatedField(located, textType, options, ctx);
       const both = await readLocatedField(located, textType, options, { ...ctx, digitReader: reader });
       const own = await readDigitComb(cropField(strip.image, strip.box, 4), reader);
@@ -138,7 +139,7 @@ describe('digit combs through read-field (real pixels, real OCR, real model)', (
       field: spec,
       parts: [{ key: spec.name, box: strip.box, source: 'detection', detectionScore: 0.9, expected: null, region: null, reasons: [] }],
     };
-    const ctx = { page: strip.image, padding: 4, typeContext: { today: new Date() } };
+    const ctx = { page: strip.image, padding: 4, typeContext: { today: new Date() }, ocr: engine };
     const alone = buildFieldResult(located, await readLocatedField(located, textType, options, ctx), 0.75, IDENTITY);
     const both = buildFieldResult(located, await readLocatedField(located, textType, options, { ...ctx, digitReader: reader }), 0.75, IDENTITY);
     expect(alone.value).not.toBe('999770');

@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { entryBox } from '../fields/entry-box.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { getFieldType } from '../../src/fields/registry.js';
 import type { TextReading } from '../../src/fields/types.js';
 import { carriesDigits } from '../../src/fields/digit-scrutiny.js';
@@ -21,7 +21,8 @@ const kept = (text: string) => {
   return { reading, interpretation: interpret(reading) };
 };
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 describe('second read of a value with digits', () => {
   it('reads with the other binarization than the kept one', () => {
@@ -40,7 +41,7 @@ describe('second read of a value with digits', () => {
 
   it('confirms the value the crop holds and refuses one with two digits swapped', async () => {
     const { page, box } = await entryBox('03/14/2024', 'mono', 26, 360);
-    const read = { padding: 4, mode: 'line' as const, allowed: '0123456789/', comb: false };
+    const read = { engine: ocr, padding: 4, mode: 'line' as const, allowed: '0123456789/', comb: false };
     const right = kept('03/14/2024');
     expect(right.interpretation.value).toBe('2024-03-14');
     const same = await secondRead(page, box, right, read, interpret);

@@ -3,10 +3,11 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { getFieldType } from '../../src/fields/registry.js';
 import { grayFromImage } from '../../src/image/raster.js';
 import { readLocatedField, UNREAD_INK } from '../../src/pipeline/read-field.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { FieldSpec } from '../../src/schema/definition.js';
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 const BOX = { x: 20, y: 20, w: 600, h: 70 };
 
@@ -22,7 +23,7 @@ async function read(page: Awaited<ReturnType<typeof area>>) {
   const field = FieldSpec.parse({ name: 'arrival_date', type: 'date', class: 'text_entry', region: [20, 20, 600, 70], options });
   const type = getFieldType('date');
   const located = { field, parts: [{ key: field.name, box: BOX, source: 'region' as const, detectionScore: null, expected: BOX, region: BOX, reasons: [] }] };
-  return readLocatedField(located, type, type.options.parse(options), { page, padding: 4, typeContext: { today: new Date(2025, 5, 15) } });
+  return readLocatedField(located, type, type.options.parse(options), { ocr, page, padding: 4, typeContext: { today: new Date(2025, 5, 15) } });
 }
 
 describe('blank or unread', () => {

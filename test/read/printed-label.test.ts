@@ -2,12 +2,13 @@ import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { TextReading } from '../../src/fields/types.js';
 import { grayFromImage } from '../../src/image/raster.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { withoutPrintedLabel } from '../../src/read/printed-label.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { useBundledFonts } from '../../src/image/fonts.js';
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 const words = (text: string, confidence = 0.9): TextReading => ({
   kind: 'text',
@@ -25,7 +26,7 @@ async function labelledCell(label: string, value: string) {
     <text x="40" y="105" font-family="DejaVu Sans" font-size="34">${value}</text></svg>`;
   const page = await grayFromImage(await sharp(Buffer.from(svg)).png().toBuffer());
   // The whole cell, as a detector finds it: the label is inside the entry area.
-  return readTextField(page, { x: 20, y: 20, w: 640, h: 110 }, { mode: 'block', skew: 0 });
+  return readTextField(page, { x: 20, y: 20, w: 640, h: 110 }, { engine: ocr, mode: 'block', skew: 0 });
 }
 
 describe('printed label caught in a crop', () => {

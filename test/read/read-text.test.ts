@@ -2,7 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { distance } from 'fastest-levenshtein';
 import { renderCell } from './render-cell.js';
 import { readTextField, readVariant } from '../../src/read/read-text.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { ADAPTIVE, COMB_CELLS, STANDARD } from '../../src/read/variants.js';
 import { cropField } from '../../src/read/crop.js';
 import { binarizeOtsu } from '../../src/image/otsu.js';
@@ -10,7 +10,8 @@ import { removeRuledLines } from '../../src/read/cleanup/line-removal.js';
 import { ruleLengths } from '../../src/read/cleanup/pipeline.js';
 import { combCells, joinCells } from '../../src/read/comb-cells.js';
 
-afterAll(closeSharedOcrEngine);
+const ocr = new OcrEngine();
+afterAll(() => ocr.close());
 
 // Invented values: fictional names, NANP fictional range 555-0100..0199, example.org mail.
 const VALUES = [
@@ -28,7 +29,7 @@ describe('readTextField on rendered typed cells (real tesseract.js)', () => {
     let chars = 0;
     for (const value of VALUES) {
       const { page, box } = await renderCell({ value, label: 'Owner details' });
-      const { reading } = await readTextField(page, box, { padding: 6, mode: 'line' });
+      const { reading } = await readTextField(page, box, { engine: ocr, padding: 6, mode: 'line' });
       errors += distance(reading.text, value);
       chars += value.length;
     }
@@ -41,7 +42,7 @@ describe('readTextField on rendered typed cells (real tesseract.js)', () => {
   it('reads comb fields with their separators removed', async () => {
     const value = '04101';
     const { page, box } = await renderCell({ value, comb: 5, fontSize: 30 });
-    const { reading } = await readTextField(page, box, { padding: 6, comb: true, allowed: '0123456789' });
+    const { reading } = await readTextField(page, box, { engine: ocr, padding: 6, comb: true, allowed: '0123456789' });
     // Exact match: five printed digits on clean paper (CER definition as above: zero edits).
     expect(reading.text.replace(/\s/g, '')).toBe(value);
   });
@@ -50,7 +51,7 @@ describe('readTextField on rendered typed cells (real tesseract.js)', () => {
     const value = '555-0177';
     const { page, box } = await renderCell({ value });
     const seen: string[] = [];
-    const { reading, attempts } = await readTextField(page, box, {
+    const { reading, attempts } = await readTextField(page, box, { engine: ocr,
       variants: [STANDARD, ADAPTIVE],
       // Rejects the first reading whatever it says, accepts the second if it is the printed value.
       accept: (r) => {
@@ -77,7 +78,7 @@ describe('comb fields cell by cell', () => {
     const { vertical } = removeRuledLines(bin, ruleLengths({ comb: true }, crop.inner));
     const cells = combCells(vertical, bin.width, crop.inner);
     expect(cells.length).toBe(7);
-    const r = await readVariant(crop, COMB_CELLS, { comb: true, allowed: 'ABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789' });
+    const r = await readVariant(crop, COMB_CELLS, { engine: ocr, comb: true, allowed: 'ABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789' });
     expect(r.text).toBe('K1A 0B1');
   });
 

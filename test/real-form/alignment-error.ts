@@ -5,7 +5,7 @@ import { normalizePage } from '../../src/page/normalize.js';
 import type { GrayImage } from '../../src/image/raster.js';
 import type { DocumentResult } from '../../src/result/document.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import { fieldRegions } from '../../src/schema/resolved-field.js';
 import { applyH, type Homography } from '../../src/synth/homography.js';
 
 /**
@@ -54,8 +54,8 @@ function distances(t: Affine, from: readonly Point[], to: readonly Point[]): { m
 }
 
 export function alignmentError(loaded: LoadedSchema, refToSource: Affine, truth: Homography): AlignmentError {
-  const ref: Point[] = loaded.schema.fields
-    .filter((f) => f.page === 0)
+  const ref: Point[] = loaded.fields
+    .filter((f) => f.spec.page === 0)
     .flatMap((f) => fieldRegions(f).flatMap(({ region }) => corners(region)));
   const onPage: Point[] = ref.map((p) => applyH(truth, p[0], p[1]));
   const best = fitTransform('affine', ref, onPage);

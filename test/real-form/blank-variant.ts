@@ -10,6 +10,7 @@ import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
 import { encodePage } from '../../src/synth/encode-page.js';
 import { rasterizeSvg } from '../../src/synth/rasterize.js';
 import { REPO_ROOT, W4_BLANK } from './w4-layout.js';
+import type { OcrEngine } from '../../src/read/ocr-engine.js';
 
 /**
  * Small variants of a real blank (the W-4 by default, 1700 x 2200 at 200 dpi) for tests of one failure mode each:
@@ -69,12 +70,12 @@ export async function penOnBlank(svgBody: string, blank = W4_BLANK): Promise<Buf
   return encodePage(page, 'png', 200);
 }
 
-/** Extract pages (PNG bytes) with the shipped detector, one document each; the records in order. */
-export async function extractWithShippedModel(loaded: LoadedSchema, pages: readonly Buffer[], id: string): Promise<DocumentResult[]> {
+/** Extract pages (PNG bytes) with the shipped detector and the test file's OCR engine, one document each; the records in order. */
+export async function extractWithShippedModel(loaded: LoadedSchema, pages: readonly Buffer[], id: string, ocr: OcrEngine): Promise<DocumentResult[]> {
   const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
   try {
     const out: DocumentResult[] = [];
-    for (const [i, png] of pages.entries()) out.push((await extractDocument(png, { schema: loaded, detector, documentId: `${id}-${i}` })).result);
+    for (const [i, png] of pages.entries()) out.push((await extractDocument(png, { schema: loaded, detector, ocr, documentId: `${id}-${i}` })).result);
     return out;
   } finally {
     await detector.close();

@@ -1,10 +1,11 @@
 import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { DD293_BLANK, extractWithShippedModel, filledBlank, schemaOnBlank } from './blank-variant.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 /**
@@ -36,7 +37,7 @@ async function scanned(extraSvg: string): Promise<Buffer> {
 describe('marks on the real DD Form 293, measured as ink added over the blank', () => {
   it('reads a one-of group whose boxes sit between ruled lines, with a tick that overflows its box', async () => {
     const loaded = await schemaOnBlank(SCHEMA, DD293_BLANK);
-    const [ticked, blank] = await extractWithShippedModel(loaded, [await scanned(HEAVY_TICK), await scanned('')], 'dd293-marks');
+    const [ticked, blank] = await extractWithShippedModel(loaded, [await scanned(HEAVY_TICK), await scanned('')], 'dd293-marks', ocr);
     const component = ticked.fields.find((f) => f.name === 'component')!;
     expect(component.value).toBe('reserve');
     expect(component.status).toBe('accepted');

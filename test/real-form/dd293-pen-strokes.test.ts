@@ -1,9 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { DD293_BLANK, extractWithShippedModel, penOnBlank, schemaOnBlank } from './blank-variant.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 describe('handwriting in the tight ruled cells of DD Form 293', () => {
@@ -23,7 +24,7 @@ describe('handwriting in the tight ruled cells of DD Form 293', () => {
         '<text x="380" y="620" font-family="DejaVu Sans" font-size="46" fill="#15153a">Stillwater</text>',
       DD293_BLANK,
     );
-    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-pen');
+    const [result] = await extractWithShippedModel(loaded, [png], 'dd293-pen', ocr);
     expect(result.fields.find((f) => f.name === 'last_name')!.value).toBe('Stillwater');
     expect(result.fields.find((f) => f.name === 'first_name')!.value).toBe('Stillwater');
   }, 180_000);

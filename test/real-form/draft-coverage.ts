@@ -1,8 +1,8 @@
 import type { Detector } from '../../src/detect/types.js';
 import type { Box } from '../../src/image/geometry.js';
 import { iou } from '../../src/image/geometry.js';
-import { sharedOcrEngine } from '../../src/read/ocr-engine.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import type { OcrEngine } from '../../src/read/ocr-engine.js';
+import { fieldRegions, resolveField } from '../../src/schema/resolved-field.js';
 import type { FormSchema } from '../../src/schema/definition.js';
 import { draftSchema } from '../../src/draft/from-image.js';
 import type { LoadedSchema } from '../../src/schema/load.js';
@@ -28,7 +28,7 @@ interface Area {
 
 function areas(schema: FormSchema): Area[] {
   return schema.fields.flatMap((f) =>
-    fieldRegions(f).map(({ region: [x, y, w, h] }) => ({ box: { x, y, w, h }, className: f.class })),
+    fieldRegions(resolveField(f)).map(({ region: [x, y, w, h] }) => ({ box: { x, y, w, h }, className: f.class })),
   );
 }
 
@@ -36,10 +36,9 @@ function areas(schema: FormSchema): Area[] {
  * Draft a schema from the blank page with the detector and the OCR engine reading the labels, then count the
  * labelled areas the draft covers. The blank is upright and level as published, so it is drafted as it is.
  */
-export async function draftCoverage(loaded: LoadedSchema, detector: Detector): Promise<DraftCoverage> {
+export async function draftCoverage(loaded: LoadedSchema, detector: Detector, engine: OcrEngine): Promise<DraftCoverage> {
   const blank = await w4Blank();
   const detections = await detector.detect(blank);
-  const engine = sharedOcrEngine();
   const draft = await draftSchema([blank], [detections], async (crop) => (await engine.read(crop, { mode: 'line' })).text, {
     formName: 'w4-draft',
     referenceImages: [undefined],

@@ -1,9 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { readStripFields } from './strip-fields.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 describe('comb fields with dotted separators printed between cells (IRS Form 1040, typed fill)', () => {
@@ -16,6 +17,7 @@ describe('comb fields with dotted separators printed between cells (IRS Form 104
         { name: 'your_ssn', type: 'text', region: [1302, 261, 298, 39], box: [1301.5, 258.4, 298.4, 39.1], options: { maxLength: 9 } },
         { name: 'spouse_ssn', type: 'text', region: [1302, 327, 298, 40], box: [1301.5, 324.5, 298.4, 40.1], options: { maxLength: 9 } },
       ],
+      ocr,
     );
     expect(ssn.your_ssn.value).toBe('431');
     expect(ssn.spouse_ssn.value).toBe('942730');
@@ -26,6 +28,7 @@ describe('comb fields with dotted separators printed between cells (IRS Form 104
         { name: 'dependent_3_ssn', type: 'text', region: [1002, 924, 296, 35], box: [1001, 922.4, 296.4, 35.1], options: { maxLength: 9 } },
         { name: 'dependent_4_ssn', type: 'text', region: [1302, 924, 298, 35], box: [1301.4, 922.3, 298.4, 35.1], options: { maxLength: 9 } },
       ],
+      ocr,
     );
     // Values the filler typed into the dependents' SSN combs (its word lists, not numbers: invented text either way).
     expect(dependents.dependent_2_ssn.value).toBe('Farmer');

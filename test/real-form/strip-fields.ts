@@ -1,10 +1,11 @@
 import path from 'node:path';
-import { getFieldType } from '../../src/fields/registry.js';
+import type { OcrEngine } from '../../src/read/ocr-engine.js';
 import type { Box } from '../../src/image/geometry.js';
 import { grayFromImage, type GrayImage } from '../../src/image/raster.js';
 import type { LocatedField } from '../../src/locate/locate-fields.js';
 import { readLocatedField } from '../../src/pipeline/read-field.js';
 import { FieldSpec } from '../../src/schema/definition.js';
+import { resolveField } from '../../src/schema/resolved-field.js';
 import { REPO_ROOT } from './w4-layout.js';
 
 /**
@@ -44,7 +45,7 @@ export async function stripField(strip: Strip, f: StripField): Promise<{ page: G
   };
 }
 
-export async function readStripFields(strip: Strip, fields: readonly StripField[]): Promise<Record<string, { value: unknown; reasons: string[] }>> {
+export async function readStripFields(strip: Strip, fields: readonly StripField[], ocr: OcrEngine): Promise<Record<string, { value: unknown; reasons: string[] }>> {
   const got: Record<string, { value: unknown; reasons: string[] }> = {};
   for (const f of fields) {
     const options = f.options ?? {};
@@ -54,8 +55,8 @@ export async function readStripFields(strip: Strip, fields: readonly StripField[
       field,
       parts: [{ key: f.name, box, source: 'region', detectionScore: null, expected: box, region, reasons: [] }],
     };
-    const type = getFieldType(f.type);
-    const out = await readLocatedField(located, type, type.options.parse(options), {
+    const { type, options: typed } = resolveField(field);
+    const out = await readLocatedField(located, type, typed, { ocr,
       page,
       reference,
       padding: 4,

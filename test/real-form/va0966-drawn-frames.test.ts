@@ -1,9 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { readStripFields } from './strip-fields.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 describe('fields boxed by a frame the blank lacks (VA Form 21-0966, typed fill)', () => {
@@ -26,6 +27,7 @@ describe('fields boxed by a frame the blank lacks (VA Form 21-0966, typed fill)'
         { name: 'state', type: 'choice_text', region: [266, 900, 84, 42], box: [255.9, 900.3, 84.5, 42.3], options: { choices: ['MO', 'MT', 'NE', 'OH'] } },
         { name: 'country', type: 'text', region: [500, 900, 84, 42], box: [491.3, 900.2, 84.5, 42.3], options: { maxLength: 2 } },
       ],
+      ocr,
     );
     // The values the filler typed (invented; the bench's truth file for this page).
     expect(got.veterans_first_name.value).toBe('Dario');

@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractDocument, loadDetector } from '../../src/api.js';
+import { OcrEngine, extractDocument, loadDetector } from '../../src/api.js';
 import { TruthDocument } from '../../src/result/truth.js';
 import { scoreDocument, type ScoredField } from '../../src/eval/score.js';
 import { iou } from '../../src/image/geometry.js';
@@ -11,8 +11,9 @@ import { alignmentError, referenceToSource } from './alignment-error.js';
 import { renderW4Page } from './fill.js';
 import { loadW4Schema, REPO_ROOT, w4Layout } from './w4-layout.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 /** A model that finds nothing useful: every field then comes from its schema region after alignment (region
@@ -34,7 +35,7 @@ async function extractWith(model: string) {
   const detector = await loadDetector(model, { intraOpThreads: 1 });
   try {
     const detections = await detector.detect(page.image);
-    const { result, pages } = await extractDocument(await encodePage(page.image, 'png', page.scan.dpi), {
+    const { result, pages } = await extractDocument(await encodePage(page.image, 'png', page.scan.dpi), { ocr,
       schema: loaded,
       detector,
       today: new Date(Date.UTC(2025, 11, 31)),

@@ -1,13 +1,14 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { extractWithShippedModel, filledBlank, schemaOnBlank } from './blank-variant.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 async function extractW4(fieldsYaml: string, entries: Parameters<typeof filledBlank>[0], id: string) {
-  const [result] = await extractWithShippedModel(await schemaOnBlank(fieldsYaml), [await filledBlank(entries)], id);
+  const [result] = await extractWithShippedModel(await schemaOnBlank(fieldsYaml), [await filledBlank(entries)], id, ocr);
   return result;
 }
 

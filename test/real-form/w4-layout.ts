@@ -2,7 +2,7 @@ import path from 'node:path';
 import type { Box } from '../../src/image/geometry.js';
 import { loadSchema, type LoadedSchema } from '../../src/schema/load.js';
 import type { FieldSpec } from '../../src/schema/definition.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import { fieldRegions, resolveField } from '../../src/schema/resolved-field.js';
 import type { CocoDataset } from '../../src/synth/coco.js';
 import { CocoBuilder } from '../../src/synth/coco.js';
 import { IDENTITY_H } from '../../src/synth/homography.js';
@@ -71,7 +71,7 @@ export function w4Layout(loaded: LoadedSchema): Layout {
   const page = schema.pages[0];
   const fields: LayoutField[] = schema.fields.map((field) => {
     const cls = detectorClass(field);
-    const slots: EntrySlot[] = fieldRegions(field).map(({ key, region }) => {
+    const slots: EntrySlot[] = fieldRegions(resolveField(field)).map(({ key, region }) => {
       const b = box(region);
       const writeBox = field.type === 'checkbox' || field.type === 'choice' ? b : WRITE_BOXES[field.name];
       if (!writeBox) throw new Error(`no write box for W-4 field ${field.name}`);

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadCocoDataset } from '../../src/eval/detection-dataset.js';
 import { referenceImagePath } from '../../src/schema/load.js';
-import { fieldRegions } from '../../src/schema/consistency.js';
+import { fieldRegions } from '../../src/schema/resolved-field.js';
 import type { GrayImage } from '../../src/image/raster.js';
 import { DETECTOR_CLASSES } from '../../src/synth/layout-model.js';
 import { renderW4Page, w4Blank } from './fill.js';
@@ -56,7 +56,7 @@ describe('hand-labelled schema of the real blank layout', () => {
   it('puts each checkbox region on a printed square: dark border all round, paper inside', async () => {
     const loaded = await loadW4Schema();
     const blank = await w4Blank();
-    const boxes = loaded.schema.fields.filter((f) => f.class === 'checkbox').flatMap((f) => fieldRegions(f).map((p) => p.region));
+    const boxes = loaded.fields.filter((f) => f.spec.class === 'checkbox').flatMap((f) => fieldRegions(f).map((p) => p.region));
     expect(boxes).toHaveLength(4);
     for (const [x, y, w, h] of boxes) {
       expect(inkBounds(blank, x - 3, y - 3, x + w + 3, y + h + 3)).toEqual({ x, y, w, h });

@@ -1,11 +1,12 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine } from '../../src/api.js';
+import { OcrEngine } from '../../src/api.js';
 import { iou } from '../../src/image/geometry.js';
 import { filledRealForm } from '../page/fill-real-form.js';
 import { extractWithShippedModel, schemaOnBlank } from './blank-variant.js';
 
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
 });
 
 describe('a field whose detector class appears once in the schema, on the real W-4', () => {
@@ -16,7 +17,7 @@ describe('a field whose detector class appears once in the schema, on the real W
   - { name: city_state_zip, type: text, class: text_entry, region: [261, 367, 1057, 65] }
   - { name: employee_signature, type: signature, class: signature_area, region: [279, 1810, 962, 72] }
 `);
-    const [result] = await extractWithShippedModel(loaded, [await filledRealForm()], 'w4-unique');
+    const [result] = await extractWithShippedModel(loaded, [await filledRealForm()], 'w4-unique', ocr);
     const city = result.fields.find((f) => f.name === 'city_state_zip')!;
     // The page is the blank itself (no scan), so source pixels are reference pixels.
     expect(iou(city.box!, { x: 261, y: 367, w: 1057, h: 65 })).toBeGreaterThan(0.5);

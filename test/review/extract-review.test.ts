@@ -4,7 +4,7 @@ import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import { afterAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
+import { OcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
 import { DocumentResult } from '../../src/result/document.js';
 import { applyReviewQueue } from '../../src/review/apply.js';
 import { readAudit } from '../../src/review/audit.js';
@@ -13,8 +13,9 @@ import { typedByPerson, type TruthField } from '../support/person-answer.js';
 
 const repo = path.resolve(import.meta.dirname, '../..');
 const dirs: string[] = [];
+const ocr = new OcrEngine();
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
   for (const d of dirs) await rm(d, { recursive: true, force: true });
 });
 
@@ -35,7 +36,7 @@ describe('extract, review in a spreadsheet, apply', () => {
     // from the schema's regions on the real scan and land in the review queue (region_fallback).
     const detector = await loadDetector(path.join(repo, 'test/fixtures/models/square-scores.onnx'), { intraOpThreads: 1 });
     const sample = path.join(repo, 'samples/clinic-intake-typed.png');
-    const report = await extractBatch({ inputs: [sample], schemas: [schema], detector, outDir: out });
+    const report = await extractBatch({ ocr, inputs: [sample], schemas: [schema], detector, outDir: out });
     await detector.close();
     expect(report.lines[0].error ?? "ok").toBe("ok");
 

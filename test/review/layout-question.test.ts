@@ -5,7 +5,7 @@ import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
+import { OcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
 import { DEFAULT_MODEL_PATH } from '../../src/models.js';
 import { DocumentResult } from '../../src/result/document.js';
 import { applyAnswers, applyReviewQueue } from '../../src/review/apply.js';
@@ -23,6 +23,7 @@ import { recordTablesByLayout } from '../../src/review/export-table.js';
 const repo = path.resolve(import.meta.dirname, '../..');
 const dirs: string[] = [];
 let extracted = '';
+const ocr = new OcrEngine();
 
 type Row = Record<string, string>;
 
@@ -57,13 +58,13 @@ beforeAll(async () => {
   extracted = await mkdtemp(path.join(tmpdir(), 'fg-layout-run-'));
   dirs.push(extracted);
   const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
-  const report = await extractBatch({ inputs, schemas: await runSchemas(), detector, outDir: extracted });
+  const report = await extractBatch({ ocr, inputs, schemas: await runSchemas(), detector, outDir: extracted });
   await detector.close();
   expect(report.lines.map((l) => l.error ?? 'ok')).toEqual(['ok', 'ok']);
 }, 240_000);
 
 afterAll(async () => {
-  await closeSharedOcrEngine();
+  await ocr.close();
   for (const d of dirs) await rm(d, { recursive: true, force: true });
 });
 
@@ -129,6 +130,7 @@ describe('a document of unknown layout in the review queue', () => {
     const detector = await loadDetector(DEFAULT_MODEL_PATH, { intraOpThreads: 1 });
     const reused: string[] = [];
     const report = await extractBatch({
+      ocr,
       inputs,
       schemas: await runSchemas(),
       detector,

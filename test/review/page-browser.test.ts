@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { closeSharedOcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
+import { OcrEngine, extractBatch, loadDetector, loadSchema } from '../../src/api.js';
 import { DocumentResult } from '../../src/result/document.js';
 import { readAudit } from '../../src/review/audit.js';
 import { valueToCell } from '../../src/review/cell-value.js';
@@ -60,17 +60,18 @@ beforeAll(async () => {
   // almost nothing, so fields are read at the schema's regions and wait for review (as in extract-review.test.ts).
   const schema = await loadSchema(path.join(repo, 'schemas/clinic-intake.yaml'));
   const detector = await loadDetector(path.join(repo, 'test/fixtures/models/square-scores.onnx'), { intraOpThreads: 1 });
-  await extractBatch({ inputs: [path.join(repo, 'samples/clinic-intake-typed.png')], schemas: [schema], detector, outDir: out });
+  await extractBatch({ ocr, inputs: [path.join(repo, 'samples/clinic-intake-typed.png')], schemas: [schema], detector, outDir: out });
   await detector.close();
   const t = JSON.parse(await readFile(path.join(repo, 'samples/truth/clinic-intake-typed.json'), 'utf8')) as { fields: TruthField[] };
   truth = new Map(t.fields.map((f) => [f.name, f]));
   reviewPage = await startReviewPage({ resultsDir: out, reviewer: 'R. Quill' });
 }, 240_000);
 
+const ocr = new OcrEngine();
 afterAll(async () => {
   await browser?.close();
   await reviewPage?.close();
-  await closeSharedOcrEngine();
+  await ocr.close();
   if (out) await rm(out, { recursive: true, force: true });
 });
 
