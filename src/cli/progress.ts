@@ -27,7 +27,10 @@ function documentsSaid(lines: readonly ResultsLine[], reused: boolean): string {
     review += (l.counts?.review ?? 0) + (l.counts?.invalid ?? 0) + (l.counts?.missing ?? 0);
   }
   const forms = lines.length > 1 ? `${lines.length} forms, ` : '';
-  return `${forms}${accepted} accepted, ${review} to review${reused ? ' (unchanged, kept)' : ''}`;
+  const unknown = lines.filter((l) => l.unknownLayout).length;
+  // Such a form waits as a whole: the review queue asks which form it is before any of its fields.
+  const layout = unknown > 0 ? `; ${unknown === lines.length && unknown === 1 ? 'layout' : `${unknown} layout(s)`} unknown: fits none of the schemas` : '';
+  return `${forms}${accepted} accepted, ${review} to review${layout}${reused ? ' (unchanged, kept)' : ''}`;
 }
 
 function duration(seconds: number): string {

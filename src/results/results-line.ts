@@ -20,6 +20,8 @@ export const ResultsLine = z.object({
   pages: z.number().int().optional(),
   counts: z.record(FieldStatus, z.number().int()).optional(),
   seconds: z.number().optional(),
+  /** Set when the document fits none of the schemas (its record's layout status): it waits for a person as a whole. */
+  unknownLayout: z.literal(true).optional(),
 });
 export type ResultsLine = z.infer<typeof ResultsLine>;
 
@@ -34,6 +36,7 @@ export function okLine(result: DocumentResult): ResultsLine {
     pages: result.pages.length,
     counts: result.counts,
     seconds: result.seconds,
+    ...(result.layout?.status === 'unknown_layout' ? { unknownLayout: true as const } : {}),
   };
 }
 

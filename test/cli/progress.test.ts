@@ -49,6 +49,14 @@ describe('batch progress on stderr', () => {
     expect(text.endsWith('\r\x1b[K')).toBe(true);
   });
 
+  it('says when a form fits none of the schemas (it waits for a person as a whole)', () => {
+    const out = sink();
+    const p = new BatchProgress('lines', 1, 1, out.stream);
+    p.input(event({ total: 1, lines: [{ ...form('slip-0001', 0, 22), unknownLayout: true }] }));
+    p.finish({});
+    expect(out.text()).toContain('[1/1] scans/slip-0001.png: 0 accepted, 22 to review; layout unknown: fits none of the schemas in 2.5 s\n');
+  });
+
   it('kept inputs show no time; quiet prints nothing', () => {
     const out = sink();
     const p = new BatchProgress('lines', 1, 1, out.stream);

@@ -86,6 +86,9 @@ describe('a document of unknown layout in the review queue', () => {
     expect(rows.some((r) => r.document === 'clinic-intake-typed' && r.field === '(layout)')).toBe(false);
     const status = reviewStatus((await readResultsFolder(extracted)).documents.map((d) => d.result));
     expect(status.layoutQuestions).toEqual(['marina-slip-typed']);
+    // The index says so too, for whoever reads results.jsonl.
+    const index = (await readFile(path.join(extracted, 'results.jsonl'), 'utf8')).trim().split('\n').map((l) => JSON.parse(l));
+    expect(Object.fromEntries(index.map((l) => [l.document, l.unknownLayout ?? false]))).toEqual({ 'marina-slip-typed': true, 'clinic-intake-typed': false });
   });
 
   it('answered "(none)", leaves the queue and is listed as set aside; the answer is in the record and the audit log', async () => {
