@@ -31,7 +31,7 @@ export function suppressAcrossClasses(dets: readonly Detection[]): Detection[] {
  * blank form every checkbox is a printed square, so a checkbox detection without one is dropped, as are areas with
  * no rule along them and text entries with no room to write; `dropped` counts them.
  */
-export function entryAreas(page: GrayImage, detections: readonly Detection[], threshold: number, dropped: DroppedAreas): Detection[] {
+export function entryAreasOfBlank(page: GrayImage, detections: readonly Detection[], threshold: number, dropped: DroppedAreas): Detection[] {
   return suppressAcrossClasses(detections)
     .flatMap((d) => {
       if (d.className !== 'checkbox') {

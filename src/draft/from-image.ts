@@ -7,7 +7,7 @@ import { findPhrases } from '../page/text-phrases.js';
 import { FormSchema } from '../schema/definition.js';
 import { checkboxGroups, type Candidate } from './choice-groups.js';
 import { toRegion, type DraftedField, type DraftOptions, type DroppedAreas, type SchemaDraft } from './drafted-field.js';
-import { entryAreas } from './entry-areas.js';
+import { entryAreasOfBlank } from './entry-areas.js';
 import { cleanLabel, slugName, uniqueName } from './field-name.js';
 import { cellCaptionPhrases, labelFor, leftPhrase, rowLabelPhrases } from './label-place.js';
 import { readPhrase, type LabelReader } from './label-read.js';
@@ -38,7 +38,7 @@ export async function draftSchema(
   const dropped: DroppedAreas = { checkboxWithoutMark: 0, withoutRule: 0, noWritingSpace: 0 };
   for (let pi = 0; pi < pages.length; pi++) {
     const page = pages[pi];
-    const dets = entryAreas(page, detections[pi] ?? [], inkThreshold(page), dropped);
+    const dets = entryAreasOfBlank(page, detections[pi] ?? [], inkThreshold(page), dropped);
     // Checkbox frames and comb cells are ink of glyph size; keep them out of the phrases.
     const marks = dets.filter((d) => d.className === 'checkbox' || d.className === 'comb_field').map((d) => d.box);
     const phrases = findPhrases(page, { exclude: marks });

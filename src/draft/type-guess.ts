@@ -7,7 +7,7 @@ export interface TypeGuess {
   ocr?: DraftedField['ocr'];
 }
 
-const has = (label: string, ...words: string[]) => words.some((w) => new RegExp(`(^|[^a-z])${w}([^a-z]|$)`).test(label));
+const mentions = (label: string, ...words: string[]) => words.some((w) => new RegExp(`(^|[^a-z])${w}([^a-z]|$)`).test(label));
 
 /**
  * The field type a label and an area suggest. Words are matched whole, case-folded; the order puts the more
@@ -18,19 +18,19 @@ export function guessType(label: string | null, className: string, area: Box, ch
   if (className === 'checkbox') return { type: 'checkbox' };
   if (className === 'signature_area') return { type: 'signature' };
   const l = (label ?? '').toLowerCase();
-  if (has(l, 'signature', 'signed by', 'sign here')) return { type: 'signature' };
-  if (has(l, 'e-mail', 'email', 'e mail')) return { type: 'email' };
-  if (has(l, 'phone', 'telephone', 'tel', 'mobile', 'cell', 'fax')) return { type: 'phone', options: { defaultRegion: 'US' } };
-  if (has(l, 'zip', 'zip code')) return { type: 'postal_code', options: { country: 'US' } };
-  if (has(l, 'postcode')) return { type: 'postal_code', options: { country: 'GB' } };
-  if (has(l, 'postal code', 'postal')) return { type: 'postal_code', options: { country: l.includes('canada') ? 'CA' : 'US' } };
-  if (has(l, 'date', 'dob', 'birth', 'born', 'arrival', 'departure', 'expires', 'expiry')) {
+  if (mentions(l, 'signature', 'signed by', 'sign here')) return { type: 'signature' };
+  if (mentions(l, 'e-mail', 'email', 'e mail')) return { type: 'email' };
+  if (mentions(l, 'phone', 'telephone', 'tel', 'mobile', 'cell', 'fax')) return { type: 'phone', options: { defaultRegion: 'US' } };
+  if (mentions(l, 'zip', 'zip code')) return { type: 'postal_code', options: { country: 'US' } };
+  if (mentions(l, 'postcode')) return { type: 'postal_code', options: { country: 'GB' } };
+  if (mentions(l, 'postal code', 'postal')) return { type: 'postal_code', options: { country: l.includes('canada') ? 'CA' : 'US' } };
+  if (mentions(l, 'date', 'dob', 'birth', 'born', 'arrival', 'departure', 'expires', 'expiry')) {
     return { type: 'date', options: { formats: ['MM/DD/YYYY', 'YYYY-MM-DD', 'D MMM YYYY'] } };
   }
-  if (l.includes('$') || has(l, 'amount', 'total', 'income', 'deductions', 'withholding', 'fee', 'price', 'cost')) {
+  if (l.includes('$') || mentions(l, 'amount', 'total', 'income', 'deductions', 'withholding', 'fee', 'price', 'cost')) {
     return { type: 'number', options: { decimalSeparator: '.', ...(l.includes('$') ? { unit: '$' } : {}) } };
   }
-  if (has(l, 'number of', 'qty', 'quantity', 'count', 'age', 'size', 'weight', 'length', 'beam', 'draft', 'height', 'width', 'kg', 'lb', 'ft', 'sq ft')) {
+  if (mentions(l, 'number of', 'qty', 'quantity', 'count', 'age', 'size', 'weight', 'length', 'beam', 'draft', 'height', 'width', 'kg', 'lb', 'ft', 'sq ft')) {
     const unit = /\((kg|lb|lbs|ft|m|cm|in|sq ft)\)/.exec(l)?.[1];
     return { type: 'number', options: { decimalSeparator: '.', ...(unit ? { unit } : {}) } };
   }
