@@ -15,7 +15,7 @@ import { parseArgs } from 'node:util';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { loadCocoDataset, type DetectionDataset } from '../src/eval/detection-dataset.js';
 import { evaluateDetector, type DetectorEvalReport } from '../src/eval/detection-run.js';
-import { formatRows } from '../src/eval/score-table.js';
+import { formatTable } from '../src/io/text-table.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
 
@@ -57,7 +57,7 @@ try {
   });
   rows.push(['mean over forms', '', ...meanOverForms]);
   rows.push(['pooled', String(pooled.data.images), ...classes.map((c) => cell(pooled, c))]);
-  process.stdout.write(`${path.basename(a.model!)} on ${path.relative(ROOT, a.data!)}: AP@0.5 per class (boxes)\n${formatRows(['form', 'pages', ...classes], rows)}\n`);
+  process.stdout.write(`${path.basename(a.model!)} on ${path.relative(ROOT, a.data!)}: AP@0.5 per class (boxes)\n${formatTable(['form', 'pages', ...classes], rows, { rule: true })}\n`);
   process.stdout.write(
     `pooled at the operating threshold ${pooled.scoreThreshold}: ` +
       pooled.classes.map((c) => `${c.name} recall ${c.operating.recall?.toFixed(3) ?? '-'} precision ${c.operating.precision?.toFixed(3) ?? '-'}`).join('; ') +

@@ -24,7 +24,8 @@ import { evaluateDetector, type DetectorEvalReport } from '../src/eval/detection
 import { formatDetectorEval } from '../src/eval/detection-table.js';
 import { loadTruth } from '../src/eval/score-input.js';
 import type { TruthDocument } from '../src/result/truth.js';
-import { formatRows, formatScore } from '../src/eval/score-table.js';
+import { formatScore } from '../src/eval/score-table.js';
+import { formatTable } from '../src/io/text-table.js';
 import { scoreAll } from '../src/eval/score.js';
 import { oneLine } from '../src/errors.js';
 import { decodeDocument } from '../src/input/decode.js';
@@ -116,12 +117,12 @@ async function main(): Promise<void> {
     const { report } = scoreAll({ truth, results, failed: new Set(), bins: 10 });
     process.stdout.write(`(b) extraction on the filled real layout\n${formatScore(report, { perField: true })}\n`);
     const typeRows = Object.entries(report.byType).map(([type, m]) => [type, String(m.fields), pct(m.exactMatch), pct(m.markAccuracy), pct(m.locationRecall), pct(m.straightThrough)]);
-    process.stdout.write(`${formatRows(['type', 'fields', 'exact', 'marks', 'located', 'straight'], typeRows)}\n\n`);
+    process.stdout.write(`${formatTable(['type', 'fields', 'exact', 'marks', 'located', 'straight'], typeRows, { rule: true })}\n\n`);
     const alignRows = alignment.map((a) => [a.stem, a.method, a.mean.toFixed(2), a.max.toFixed(2), a.affineLimit.mean.toFixed(2), a.affineLimit.max.toFixed(2)]);
     process.stdout.write(
       'alignment error of the schema regions (corner distance to the true scan transform, source pixels; ' +
         '"affine best": the least-squares affine fit to the true corners, the floor for any affine alignment)\n' +
-        `${formatRows(['page', 'method', 'mean px', 'max px', 'affine best mean', 'affine best max'], alignRows)}\n\n`,
+        `${formatTable(['page', 'method', 'mean px', 'max px', 'affine best mean', 'affine best max'], alignRows, { rule: true })}\n\n`,
     );
 
     // (c) drafting on the blank.

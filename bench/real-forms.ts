@@ -31,7 +31,7 @@ import { isFailed } from '../src/results/results-line.js';
 import { loadDetector } from '../src/detect/onnx-detector.js';
 import { oneLine } from '../src/errors.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
-import { formatRows } from '../src/eval/score-table.js';
+import { formatTable } from '../src/io/text-table.js';
 import { scoreAll, type ScoredField } from '../src/eval/score.js';
 import { DEFAULT_BINS, reliability } from '../src/eval/reliability.js';
 import { reliabilitySvg } from '../src/eval/reliability-diagram.js';
@@ -214,14 +214,14 @@ for (const half of ['dev', 'held-out', 'unsplit'] as const) {
   const body = rs.map((r) =>
     r.refused !== null ? [r.form, '-', `refused: ${r.refused.slice(0, 60)}`, '', '', '', '', '', ''] : tableRow(r.form, String(r.fields), r.items, r.pages, r.failedPages, r.extractSeconds),
   );
-  out.push(`${half === 'dev' ? 'development half' : half === 'held-out' ? 'held-out half' : 'forms outside the split'}`, formatRows(HEADER, [...body, pooled('pooled', rs)]), '');
+  out.push(`${half === 'dev' ? 'development half' : half === 'held-out' ? 'held-out half' : 'forms outside the split'}`, formatTable(HEADER, [...body, pooled('pooled', rs)], { rule: true }), '');
 }
-out.push(formatRows(HEADER, [pooled('development', rows.filter((r) => r.half === 'dev')), pooled('held-out', rows.filter((r) => r.half === 'held-out')), pooled('all', rows)]));
+out.push(formatTable(HEADER, [pooled('development', rows.filter((r) => r.half === 'dev')), pooled('held-out', rows.filter((r) => r.half === 'held-out')), pooled('all', rows)], { rule: true }));
 const ran = rows.filter((r) => r.refused === null && r.items.length > 0);
 out.push(
   '',
   'confidence (typed/hand acc: share of the fields of typed/handwriting pages accepted without review; wrong|acc: wrong among them; ECE10: expected calibration error, 10 bins, all fields)',
-  formatRows(CONF_HEADER, [...ran.map((r) => [r.form, ...confidenceFigures(r.items)]), ['pooled', ...confidenceFigures(ran.flatMap((r) => r.items))]]),
+  formatTable(CONF_HEADER, [...ran.map((r) => [r.form, ...confidenceFigures(r.items)]), ['pooled', ...confidenceFigures(ran.flatMap((r) => r.items))]], { rule: true }),
 );
 if (args.diagram) {
   const items = ran.flatMap((r) => r.items);

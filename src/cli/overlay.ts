@@ -21,7 +21,7 @@ export const STATUS_COLOURS: Record<FieldStatus, string> = {
   confirmed: '#56B4E9',
 };
 
-function valueText(f: FieldResult): string {
+function captionValue(f: FieldResult): string {
   const v = f.value;
   if (v === null) return '∅';
   const s = Array.isArray(v) ? v.join(', ') : String(v);
@@ -34,7 +34,7 @@ export function resultOverlayItems(result: DocumentResult, page: number, showVal
     .filter((f) => f.box !== null && f.box.page === page)
     .map((f) => {
       const b = f.box!;
-      const caption = `${f.name} · ${f.status} ${Math.round(f.confidence * 100)}%${showValues ? ` = ${valueText(f)}` : ''}`;
+      const caption = `${f.name} · ${f.status} ${Math.round(f.confidence * 100)}%${showValues ? ` = ${captionValue(f)}` : ''}`;
       return { box: { x: b.x, y: b.y, w: b.w, h: b.h }, colour: STATUS_COLOURS[f.status], caption, dashed: f.source !== 'detection' };
     });
 }

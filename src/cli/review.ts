@@ -7,7 +7,7 @@ import { writeReviewQueue } from '../review/queue-write.js';
 import { reasonsMarkdown, reasonsText } from '../review/reasons-text.js';
 import { readResultsFolder } from '../review/result-store.js';
 import { reviewStatus, type ReviewStatus } from '../review/status.js';
-import { formatTable } from '../review/text-table.js';
+import { formatTable } from '../io/text-table.js';
 
 function printApplyReport(queue: string, r: ApplyReport): void {
   const applied = r.corrected + r.confirmed;

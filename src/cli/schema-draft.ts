@@ -15,7 +15,7 @@ import { renderOverlay } from '../page/overlay.js';
 import type { GrayImage } from '../image/raster.js';
 import { grayToPng } from '../image/raster.js';
 import { OcrEngine } from '../read/ocr-engine.js';
-import type { DraftedField, SchemaDraft } from '../draft/from-image.js';
+import type { DraftedField, SchemaDraft } from '../draft/drafted-field.js';
 import { draftSchema } from '../draft/from-image.js';
 import type { SchemaValue } from '../schema/schema-value.js';
 import { schemaYaml } from '../schema/yaml-write.js';

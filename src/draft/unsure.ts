@@ -1,4 +1,4 @@
-import type { DraftedField } from './from-image.js';
+import type { DraftedField } from './drafted-field.js';
 
 /** Why a drafted field needs a person's look before the schema is used. */
 export type UnsureReason = 'no_label' | 'weak_detection' | 'label_below' | 'label_far' | 'repeated_label';

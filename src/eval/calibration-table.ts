@@ -1,7 +1,7 @@
 import type { CalibrateRun } from './calibration-run.js';
-import { formatRows } from './score-table.js';
+import { formatTable } from '../io/text-table.js';
+import { pct } from './figures.js';
 
-const pct = (v: number, digits = 1): string => `${(v * 100).toFixed(digits)}%`;
 
 /** Per-field thresholds, before and after, with what the proposal accepts on the calibration data. */
 export function formatCalibration(run: CalibrateRun): string {
@@ -24,5 +24,5 @@ export function formatCalibration(run: CalibrateRun): string {
     `${run.documents} ${run.labels === 'review' ? 'reviewed ' : ''}documents, ${p.samples} labeled fields: thresholds accept ${pct(p.samples ? p.accepted / p.samples : 0)} ` +
     `with ${p.accepted ? pct(p.acceptedErrors / p.accepted, 2) : '-'} wrong among accepted ` +
     `(target ${pct(p.targetError, 2)}; measured on the calibration data itself, so check on a held-out set)`;
-  return `${formatRows(header, rows)}\n\n${overall}\n${run.target.message}\n`;
+  return `${formatTable(header, rows, { rule: true })}\n\n${overall}\n${run.target.message}\n`;
 }

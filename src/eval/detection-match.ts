@@ -47,7 +47,7 @@ export interface MatchResult {
   groundTruthCount: number;
 }
 
-function overlap(a0: number, a1: number, b0: number, b1: number, inclusive: boolean): number {
+function spanOverlap(a0: number, a1: number, b0: number, b1: number, inclusive: boolean): number {
   return Math.max(0, Math.min(a1, b1) - Math.max(a0, b0) + (inclusive ? 1 : 0));
 }
 
@@ -56,7 +56,7 @@ function boxArea(b: Box, inclusive: boolean): number {
 }
 
 function intersection(a: Box, b: Box, inclusive: boolean): number {
-  return overlap(a.x, a.x + a.w, b.x, b.x + b.w, inclusive) * overlap(a.y, a.y + a.h, b.y, b.y + b.h, inclusive);
+  return spanOverlap(a.x, a.x + a.w, b.x, b.x + b.w, inclusive) * spanOverlap(a.y, a.y + a.h, b.y, b.y + b.h, inclusive);
 }
 
 /** IoU in the given pixel convention. */

@@ -1,7 +1,7 @@
+import { formatTable } from '../io/text-table.js';
 import type { Metrics, ScoreReport } from './score.js';
+import { num, pct } from './figures.js';
 
-const pct = (v: number | null, digits = 1): string => (v === null ? '-' : `${(v * 100).toFixed(digits)}%`);
-const num = (v: number | null, digits = 4): string => (v === null ? '-' : v.toFixed(digits));
 
 const COLUMNS = ['fields', 'exact', 'CER', 'raw CER', 'marks', 'located', 'straight', 'err|acc', 'caught', 'slipped', 'ECE'];
 
@@ -18,25 +18,17 @@ function row(label: string, m: Metrics): string[] {
     pct(m.errorAmongAccepted, 2),
     String(m.caughtByReview),
     String(m.slippedThrough),
-    num(m.ece),
+    num(m.ece, 4),
   ];
 }
 
-/** Plain-text table with right-aligned figures; first column left-aligned. */
-export function formatRows(header: string[], rows: string[][]): string {
-  const all = [header, ...rows];
-  const widths = header.map((_, c) => Math.max(...all.map((r) => r[c].length)));
-  const line = (r: string[]): string =>
-    r.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ');
-  return [line(header), widths.map((w) => '-'.repeat(w)).join('  '), ...rows.map(line)].join('\n');
-}
-
-export function formatTable(title: string, rows: string[][]): string {
-  return formatRows([title, ...COLUMNS], rows);
+/** A table of score figures under a ruled header: the title heads the first column, then COLUMNS. */
+function scoreTable(title: string, rows: string[][]): string {
+  return formatTable([title, ...COLUMNS], rows, { rule: true });
 }
 
 function section(title: string, groups: Record<string, Metrics>): string {
-  return formatTable(title, Object.entries(groups).map(([k, m]) => row(k, m)));
+  return scoreTable(title, Object.entries(groups).map(([k, m]) => row(k, m)));
 }
 
 /**
@@ -51,7 +43,7 @@ export function formatScore(report: ScoreReport, options: { perField?: boolean }
       (d.resultsWithoutTruth ? `, ${d.resultsWithoutTruth} results without truth (ignored)` : '') +
       `; fields: ${report.fields.scored}` +
       (report.fields.extraInResults ? ` (+${report.fields.extraInResults} result fields not in truth)` : ''),
-    formatTable('overall', [row('all fields', report.overall)]),
+    scoreTable('overall', [row('all fields', report.overall)]),
     section('fill', report.byFill),
     section('fill/type', report.byFillType),
     section('layout', report.byLayout),

@@ -48,7 +48,7 @@ function markDecisions(t: TruthField, value: FieldResult['value']): ScoredField[
   return null;
 }
 
-function scoreField(doc: string, truth: TruthDocument, t: TruthField, r: FieldResult | undefined): ScoredField {
+function scoreAgainstTruth(doc: string, truth: TruthDocument, t: TruthField, r: FieldResult | undefined): ScoredField {
   const correct = valuesEqual(r?.value ?? null, t.value);
   const ocrField = t.text !== null;
   const truthText = valueText(t.value);
@@ -91,7 +91,7 @@ export function scoreDocument(stem: string, truth: TruthDocument, result: Docume
 } {
   const byName = new Map<string, FieldResult>();
   for (const f of result?.fields ?? []) byName.set(f.name, f);
-  const fields = truth.fields.map((t) => scoreField(stem, truth, t, byName.get(t.name)));
+  const fields = truth.fields.map((t) => scoreAgainstTruth(stem, truth, t, byName.get(t.name)));
   const truthNames = new Set(truth.fields.map((t) => t.name));
   const extraFields = (result?.fields ?? []).filter((f) => !truthNames.has(f.name)).length;
   return { fields, extraFields };

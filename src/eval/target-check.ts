@@ -1,4 +1,5 @@
 import type { ThresholdProposal } from './calibration-thresholds.js';
+import { percentInText } from './figures.js';
 
 /** Whether the proposed thresholds meet the target error on the labels, and whether the labels can show it. */
 export interface TargetCheck {
@@ -32,7 +33,6 @@ export function errorUpperBound(k: number, n: number): number {
   return Math.min(1, (centre + spread) / (1 + z2 / n));
 }
 
-const pct = (v: number): string => `${(v * 100).toFixed(2)} %`;
 
 export function checkTarget(p: ThresholdProposal): TargetCheck {
   const target = p.targetError;
@@ -43,7 +43,7 @@ export function checkTarget(p: ThresholdProposal): TargetCheck {
       observed: null,
       upper: null,
       needed,
-      message: `TARGET NOT MET: no threshold accepts any field at ${pct(target)} wrong among accepted; every field goes to review.`,
+      message: `TARGET NOT MET: no threshold accepts any field at ${percentInText(target)} wrong among accepted; every field goes to review.`,
     };
   }
   const observed = p.acceptedErrors / p.accepted;
@@ -54,7 +54,7 @@ export function checkTarget(p: ThresholdProposal): TargetCheck {
       observed,
       upper,
       needed,
-      message: `TARGET NOT MET: ${pct(observed)} wrong among the ${p.accepted} accepted labeled fields, over the target ${pct(target)}.`,
+      message: `TARGET NOT MET: ${percentInText(observed)} wrong among the ${p.accepted} accepted labeled fields, over the target ${percentInText(target)}.`,
     };
   }
   if (upper > target) {
@@ -64,10 +64,10 @@ export function checkTarget(p: ThresholdProposal): TargetCheck {
       upper,
       needed,
       message:
-        `TARGET NOT SHOWN: ${pct(observed)} wrong among ${p.accepted} accepted labeled fields, but with so few the error ` +
-        `could be up to ${pct(upper)} (95 % bound); showing ${pct(target)} takes at least ${needed ?? '-'} accepted ` +
+        `TARGET NOT SHOWN: ${percentInText(observed)} wrong among ${p.accepted} accepted labeled fields, but with so few the error ` +
+        `could be up to ${percentInText(upper)} (95 % bound); showing ${percentInText(target)} takes at least ${needed ?? '-'} accepted ` +
         `fields without an error.`,
     };
   }
-  return { verdict: 'met', observed, upper, needed, message: `Target met: ${pct(observed)} wrong among ${p.accepted} accepted (95 % bound ${pct(upper)}).` };
+  return { verdict: 'met', observed, upper, needed, message: `Target met: ${percentInText(observed)} wrong among ${p.accepted} accepted (95 % bound ${percentInText(upper)}).` };
 }

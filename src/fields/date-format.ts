@@ -1,4 +1,5 @@
 import { DIGITISH } from './digit-repair.js';
+import { escapeRegex } from './escape-regex.js';
 
 /**
  * Declared date formats such as "MM/DD/YYYY", "DD.MM.YYYY", "YYYY-MM-DD" or "D MMM YYYY": the tokens are
@@ -42,10 +43,6 @@ export function dateFormatProblem(format: string): string | null {
 }
 
 const isNumeric = (p: FormatPart | undefined) => p !== undefined && 'token' in p && !p.token.startsWith('MMM');
-
-function escapeRegex(s: string): string {
-  return s.replace(/[.*+?^${}()|[\]\\/-]/g, '\\$&');
-}
 
 /**
  * A lenient pattern for one format: digit positions also accept the letters OCR confuses with digits (repaired

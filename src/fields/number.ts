@@ -4,6 +4,7 @@ import type { ReasonCode } from './reasons.js';
 import { DIGITISH, repairDigits, repairPenalty } from './digit-repair.js';
 import { emptyInterpretation, invalidInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
+import { escapeRegex } from './escape-regex.js';
 
 const options = z
   .object({
@@ -16,10 +17,6 @@ const options = z
   .strict();
 
 export type NumberOptions = z.infer<typeof options>;
-
-function escapeRegex(s: string): string {
-  return s.replace(/[.*+?^${}()|[\]\\/-]/g, '\\$&');
-}
 
 /**
  * Digit-group separators that may appear with each decimal mark: with "." the groups are split by "," (en-US), with

@@ -2,6 +2,7 @@ import { applyConfidenceMap, type ConfidenceMapPoints } from './confidence-map.j
 import type { Interpretation, Reading } from './types.js';
 import type { ReasonCode } from './reasons.js';
 import type { FieldSource, FieldStatus, ReadStatus } from '../result/document.js';
+import { round3 } from '../result/rounding.js';
 
 /**
  * Confidence and status of one field, from everything known about it (pure).
@@ -155,10 +156,6 @@ export function ocrFactor(reading: Reading): number {
 
 function clamp01(v: number): number {
   return Number.isFinite(v) ? Math.min(1, Math.max(0, v)) : 0;
-}
-
-function round3(v: number): number {
-  return Math.round(v * 1000) / 1000;
 }
 
 function unique(codes: ReasonCode[]): ReasonCode[] {

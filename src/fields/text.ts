@@ -25,7 +25,8 @@ const options = z
 
 export type TextOptions = z.infer<typeof options>;
 
-function applyCase(s: string, c: TextOptions['case']): string {
+/** A text in the case the schema asks for (title case starts each word, also after a hyphen or an apostrophe). */
+export function applyCase(s: string, c: TextOptions['case']): string {
   if (c === 'upper') return s.toUpperCase();
   if (c === 'lower') return s.toLowerCase();
   if (c === 'title') return s.toLowerCase().replace(/(^|[\s'-])(\p{L})/gu, (_m, p: string, l: string) => p + l.toUpperCase());

@@ -27,7 +27,7 @@ export interface OpenedDocument extends PageSource {
 
 const FORMATS = new Set(['png', 'jpeg', 'tiff', 'webp']);
 
-async function readInput(input: string | Buffer, limits: DecodeLimits): Promise<Buffer> {
+async function readBytes(input: string | Buffer, limits: DecodeLimits): Promise<Buffer> {
   if (typeof input !== 'string') return input;
   try {
     const st = await stat(input);
@@ -55,7 +55,7 @@ async function pageMeta(bytes: Buffer, source: string, page: number): Promise<Me
  */
 export async function openDocument(input: string | Buffer, limits: DecodeLimits = DEFAULT_LIMITS): Promise<OpenedDocument> {
   const source = typeof input === 'string' ? input : '<buffer>';
-  const bytes = await readInput(input, limits);
+  const bytes = await readBytes(input, limits);
   if (bytes.length === 0) throw documentError(source, 'empty file');
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   if (isPdf(bytes)) return { source, sha256, format: 'pdf', ...(await openPdf(bytes, source, limits)) };

@@ -2,6 +2,7 @@ import type { Affine } from '../image/geometry.js';
 import { inkMask } from '../image/ink.js';
 import type { GrayImage } from '../image/raster.js';
 import { rotateGray } from '../image/warp.js';
+import { median } from '../image/median.js';
 
 /**
  * Small-angle skew by projection-profile search: rotate the lower edges of ink runs (baselines of text and
@@ -117,11 +118,6 @@ function parabolicPeak(s: Scan, i: number, step: number): number {
   const den = l - 2 * c + r;
   if (den >= 0) return s.angles[i];
   return s.angles[i] + (0.5 * (l - r) * step) / den;
-}
-
-function median(v: number[]): number {
-  const s = [...v].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
 }
 
 interface PeakSearch {

@@ -24,7 +24,7 @@ export interface LegendEntry {
 }
 
 
-function overlap(a: Box, b: Box): number {
+function intersectionArea(a: Box, b: Box): number {
   const w = Math.min(a.x + a.w, b.x + b.w) - Math.max(a.x, b.x);
   const h = Math.min(a.y + a.h, b.y + b.h) - Math.max(a.y, b.y);
   return w > 0 && h > 0 ? w * h : 0;
@@ -58,7 +58,7 @@ export function captionPlates(width: number, height: number, items: readonly Ove
       ]),
     ].map((c) => ({ ...c, x: Math.max(0, Math.min(c.x, width - c.w)) }));
     const onPage = candidates.filter((c) => c.y >= 0 && c.y + c.h <= height);
-    const cost = (c: Box) => [...boxes, ...placed].reduce((a, b) => a + overlap(c, b), 0);
+    const cost = (c: Box) => [...boxes, ...placed].reduce((a, b) => a + intersectionArea(c, b), 0);
     let best = onPage[0] ?? { x, y, w: pw, h: ph };
     let bestCost = onPage.length ? cost(best) : Infinity;
     for (const c of onPage) {

@@ -1,6 +1,7 @@
 import type { Box } from '../image/geometry.js';
 import { glyphBoxes } from './glyphs.js';
 import type { GrayImage } from '../image/raster.js';
+import { median } from '../image/median.js';
 
 /**
  * Printed phrases of an upright page — runs of characters on one line with no more than a word space between
@@ -21,11 +22,6 @@ export interface PhraseOptions {
   exclude?: readonly Box[];
   /** Largest gap between neighbours, as a share of their height (default 1.5: a word space is 0.3..0.7 of it, a comma and space at small sizes up to 1.3). */
   maxGap?: number;
-}
-
-function median(v: number[]): number {
-  const s = [...v].sort((a, b) => a - b);
-  return s.length ? s[s.length >> 1] : 0;
 }
 
 /** Group the page's character components into phrases. Pure. */

@@ -3,6 +3,7 @@ import { ocrFactor } from '../fields/scoring.js';
 import type { Interpretation, TextReading } from '../fields/types.js';
 import type { ReasonCode } from '../fields/reasons.js';
 import type { DigitCombReading } from '../read/digit-comb.js';
+import { round3 } from '../result/rounding.js';
 
 /** Reason code: Tesseract and the digit reader read a digit comb differently (stable; listed in the README). The
  *  ambiguous_ prefix marks it, like the other ambiguity reasons, as review the evidence asks for, not a threshold. */
@@ -32,12 +33,13 @@ export interface CrossChecked {
   details: { agree: boolean; kept: 'ocr' | 'digits'; digitConfidence: number; notDigits: number; doubtfulEmpty: number };
 }
 
-const digitsOf = (text: string) => text.replace(/[^0-9?]/g, '');
+/** The digits of a text, in order, with '?' (a cell holding a non-digit) kept in its place. */
+const digitsAndUnknowns = (text: string) => text.replace(/[^0-9?]/g, '');
 
 /** Digit sequences that match, '?' (a cell holding a non-digit) matching any one character. */
 function sameDigits(ocr: string, digits: string): boolean {
-  const a = digitsOf(ocr);
-  const b = digitsOf(digits);
+  const a = digitsAndUnknowns(ocr);
+  const b = digitsAndUnknowns(digits);
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i] && b[i] !== '?' && a[i] !== '?') return false;
   return true;
@@ -84,7 +86,7 @@ export function crossCheckDigits(
   }
   if (dValid) {
     // Tesseract read nothing usable: the digit reader's value stands unless Tesseract confidently saw other digits.
-    const ocrDigits = digitsOf(ocr.reading.text);
+    const ocrDigits = digitsAndUnknowns(ocr.reading.text);
     const agree = ocrDigits.length === 0 || sameDigits(ocr.reading.text, digits.reading.text);
     return keep('digits', agree || ocrFactor(ocr.reading) < DOUBTFUL_OCR);
   }
@@ -99,6 +101,3 @@ function ocrDoubtful(ocr: { reading: TextReading; firstAccepted: boolean | null 
   return ocr.firstAccepted === false || ocrFactor(ocr.reading) < DOUBTFUL_OCR;
 }
 
-function round3(v: number): number {
-  return Math.round(v * 1000) / 1000;
-}

@@ -17,6 +17,7 @@ import { scriptMeasures } from '../read/script-measures.js';
 import { scriptInputs, type ScriptDecision, type ScriptInputs } from '../fields/script.js';
 import { carriesDigits } from '../fields/digit-scrutiny.js';
 import { glyphSecondRead, secondRead, type SecondRead } from './second-read.js';
+import { round3 } from '../result/rounding.js';
 
 /** What reading one located field produced, before scoring. */
 export interface FieldReadOutcome {
@@ -167,6 +168,3 @@ function blankPart(ctx: ReadFieldContext, part: LocatedPart): BlankPart | undefi
   return ctx.reference && part.region && part.expected ? { reference: ctx.reference, region: part.region, onPage: part.expected } : undefined;
 }
 
-function round3(v: number): number {
-  return Math.round(v * 1000) / 1000;
-}

@@ -49,7 +49,7 @@ function otsuSplit(values: Uint8Array): Split {
   return { threshold, darkMean: dark ? darkSum / dark : lightMean, lightMean };
 }
 
-function isInk(mask: Uint8Array, w: number, x: number, y: number): boolean {
+function maskInk(mask: Uint8Array, w: number, x: number, y: number): boolean {
   return mask[y * w + x] === 1;
 }
 
@@ -69,7 +69,7 @@ function longestRuns(mask: Uint8Array, w: number, h: number, horizontal: boolean
     let run = 0;
     let best = 0;
     for (let j = 0; j < len; j++) {
-      const ink = horizontal ? isInk(mask, w, j, i) : isInk(mask, w, i, j);
+      const ink = horizontal ? maskInk(mask, w, j, i) : maskInk(mask, w, i, j);
       run = ink ? run + 1 : 0;
       if (run > best) best = run;
     }
@@ -204,9 +204,9 @@ function ringWidth(mask: Uint8Array, w: number, b: Box): number {
   for (let y = Math.max(b.y, mid - 2); y <= Math.min(b.y + b.h - 1, mid + 2); y++) {
     let x = b.x;
     const end = b.x + Math.floor(b.w / 2);
-    while (x < end && !isInk(mask, w, x, y)) x++;
+    while (x < end && !maskInk(mask, w, x, y)) x++;
     let run = 0;
-    while (x + run < end && isInk(mask, w, x + run, y)) run++;
+    while (x + run < end && maskInk(mask, w, x + run, y)) run++;
     widest = Math.max(widest, x - b.x + run);
   }
   return widest;
@@ -235,7 +235,7 @@ function innerPixels(img: GrayImage, inner: Box, ellipse: boolean): Uint8Array {
  * Share of ink inside a set of pixels. Otsu over those pixels when they hold two clearly different tones (a mark on
  * paper); otherwise they are one tone, which counts as ink when clearly darker than the paper around the box.
  */
-function fillOf(values: Uint8Array, paper: number): number {
+function fillRatioOf(values: Uint8Array, paper: number): number {
   if (values.length === 0) return 0;
   const s = otsuSplit(values);
   // Otsu's dark class is ink only when it is clearly darker both than the rest and than the paper: a white speck
@@ -258,16 +258,16 @@ export function measureMark(img: GrayImage): MarkMeasure {
   const fallback = insetBox({ x: 0, y: 0, w: img.width, h: img.height }, img.width * 0.15, img.height * 0.15);
   if (whole.lightMean - whole.darkMean < MIN_CONTRAST) {
     // One tone over the whole crop: blank paper (or a crop entirely inside a solid fill).
-    return { fillRatio: fillOf(img.data, 255), boxFound: false, inner: fallback, shape: 'none' };
+    return { fillRatio: fillRatioOf(img.data, 255), boxFound: false, inner: fallback, shape: 'none' };
   }
   const binary = thresholdAt(img, whole.threshold);
   const mask = maskOf(binary);
   const outline = findSquare(mask, img.width, img.height) ?? findCircle(binary, mask);
   if (!outline) {
-    return { fillRatio: fillOf(innerPixels(img, fallback, false), paper), boxFound: false, inner: fallback, shape: 'none' };
+    return { fillRatio: fillRatioOf(innerPixels(img, fallback, false), paper), boxFound: false, inner: fallback, shape: 'none' };
   }
   const values = innerPixels(img, outline.inner, outline.shape === 'circle');
-  return { fillRatio: fillOf(values, paper), boxFound: true, box: outline.box, inner: outline.inner, shape: outline.shape };
+  return { fillRatio: fillRatioOf(values, paper), boxFound: true, box: outline.box, inner: outline.inner, shape: outline.shape };
 }
 
 /**

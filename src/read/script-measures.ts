@@ -3,6 +3,8 @@ import { INK } from '../image/binary.js';
 import { labelComponents, typicalHeight, type Component } from '../image/components.js';
 import type { GrayImage } from '../image/raster.js';
 import type { ScriptMeasures } from '../fields/script.js';
+import { median } from '../image/median.js';
+import { round3 } from '../result/rounding.js';
 
 /**
  * Measures of an entry's ink that tell handwriting from machine print (pure, pixels only; no text). The decision
@@ -30,11 +32,6 @@ import type { ScriptMeasures } from '../fields/script.js';
 /** Fewest glyph components for the measures to mean anything (common practice: spreads of one or two glyphs are noise). */
 export const MIN_GLYPHS = 3;
 
-function median(v: number[]): number {
-  const s = [...v].sort((a, b) => a - b);
-  return s.length ? s[s.length >> 1] : 0;
-}
-
 /** Mean absolute deviation from the median: continuous where a median of deviations is 0 for most short entries. */
 function meanDeviation(v: number[]): number {
   const m = median(v);
@@ -46,8 +43,6 @@ function coefficientOfVariation(v: readonly number[]): number {
   const sd = Math.sqrt(v.reduce((s, x) => s + (x - mean) ** 2, 0) / v.length);
   return mean > 0 ? sd / mean : 0;
 }
-
-const round3 = (v: number) => Math.round(v * 1000) / 1000;
 
 /**
  * Glyph-like components: not touching the area's border (rules, box sides, neighbours' ink), at least 3 px tall and

@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { loadDetector } from '../../src/detect/onnx-detector.js';
-import { draftedAreas, draftSchema } from '../../src/draft/from-image.js';
+import { draftedAreas } from '../../src/draft/drafted-field.js';
+import { draftSchema } from '../../src/draft/from-image.js';
 import { unsureFields } from '../../src/draft/unsure.js';
 import { iou } from '../../src/image/geometry.js';
 import { grayFromImage } from '../../src/image/raster.js';

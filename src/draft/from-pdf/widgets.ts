@@ -101,7 +101,7 @@ function requireAcroForm(doc: PDFDocument, file: string): void {
   throw configError(file, 'no fillable form fields (no AcroForm): draft a schema from a scan of it with "schema draft"');
 }
 
-function kindOf(field: PDFField): WidgetKind | 'push' | 'list' {
+function widgetKindOf(field: PDFField): WidgetKind | 'push' | 'list' {
   if (field instanceof PDFTextField) return field.isCombed() && field.getMaxLength() !== undefined ? 'comb' : 'text';
   if (field instanceof PDFCheckBox) return 'checkbox';
   if (field instanceof PDFRadioGroup) return 'radio';
@@ -142,7 +142,7 @@ export function readPageWidgets(doc: PDFDocument, page: number, file: string): P
   for (const field of form.getFields()) {
     const widgets = field.acroField.getWidgets().filter((w) => onPage.has(w.dict));
     if (widgets.length === 0) continue;
-    const kind = kindOf(field);
+    const kind = widgetKindOf(field);
     const name = field.getName();
     const tooltip = textOf(field.acroField.dict.lookup(PDFName.of('TU')));
     for (const w of widgets) {

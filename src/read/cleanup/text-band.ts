@@ -44,7 +44,7 @@ export interface BandOptions {
   mergeShare?: number;
 }
 
-function overlap(b: TextBand, inside: Box | undefined): number {
+function shareInside(b: TextBand, inside: Box | undefined): number {
   if (!inside) return 1;
   const top = Math.max(b.top, inside.y);
   const bottom = Math.min(b.bottom, inside.y + inside.h);
@@ -63,7 +63,7 @@ export function isolateTextBand(img: GrayImage, options: BandOptions): { image: 
   if (first.length === 0) return { image: img, bands: [] };
   const tallest = Math.max(...first.map((b) => b.bottom - b.top));
   const bands = textBands(img, Math.max(1, Math.round(tallest * (options.mergeShare ?? 0.25))));
-  const inBox = bands.filter((b) => overlap(b, options.inside) >= 0.5);
+  const inBox = bands.filter((b) => shareInside(b, options.inside) >= 0.5);
   const candidates = inBox.length ? inBox : bands;
   const { components } = labelComponents(img);
   const heightOf = (b: TextBand) =>

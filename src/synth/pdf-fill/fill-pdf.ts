@@ -60,7 +60,7 @@ function darkest(a: GrayImage, b: GrayImage): GrayImage {
   return { width: a.width, height: a.height, data: out };
 }
 
-function truthField(f: PdfFieldFill, scan: ScanParams, handwriting: boolean): TruthField {
+function pdfTruthField(f: PdfFieldFill, scan: ScanParams, handwriting: boolean): TruthField {
   const src = f.src;
   const boxes = src.boxes.map((b) => scanBox(scan.transform, b, scan.width, scan.height));
   const out: TruthField = {
@@ -126,7 +126,7 @@ export async function fillPage(bytes: Uint8Array, draft: PdfSchemaDraft, o: Fill
     skew: scan.skew,
     fill: mode,
     pen,
-    fields: fills.map((f) => truthField(f, scan, mode === 'handwriting')),
+    fields: fills.map((f) => pdfTruthField(f, scan, mode === 'handwriting')),
   };
   return { stem, image, scan, truth };
 }

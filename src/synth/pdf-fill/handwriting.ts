@@ -18,7 +18,7 @@ export type CombCellDrawer = (cell: Box, char: string, rng: Rng, pen: Pen) => st
  * Letters as a person writes them: the pen's font, not always centred, sometimes slanted or over the box edge. A
  * typing pen (pen.handwriting false) sets them straight on a steady baseline, as a typewriter or printer would.
  */
-function writtenText(box: Box, text: string, pen: Pen, rng: Rng): string {
+function writtenInBox(box: Box, text: string, pen: Pen, rng: Rng): string {
   const font = pen.font as FontKey;
   const hand = pen.handwriting;
   const size = fitFontSize(text, font, Math.min(box.h * pen.size * (hand ? 1.25 : 1), 44), box.w * 0.94);
@@ -70,7 +70,7 @@ export function handwritingSvg(fills: readonly PdfFieldFill[], pen: Pen, rng: Rn
     else if (f.value === true && (f.src.kind === 'signature' || f.src.field.type === 'signature')) body += signatureSvg(box, r, pen.ink);
     else if (f.text !== null) {
       const cells = f.src.kind === 'comb' ? f.src.widgets[0].maxLength : undefined;
-      body += cells ? combText(box, cells, f.text, pen, r, drawCell) : writtenText(box, f.text, pen, r);
+      body += cells ? combText(box, cells, f.text, pen, r, drawCell) : writtenInBox(box, f.text, pen, r);
     }
   }
   return body;

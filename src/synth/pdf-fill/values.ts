@@ -61,7 +61,7 @@ const KIND_WORDS: [string, string[]][] = [
 /** The kind of entry a field's words ask for, or null when they say nothing about it. Identification numbers,
  *  initials and organisations win wherever they are named ("Social Security number, first three" is digits, "name
  *  of committee" an organisation). */
-function kindOf(ws: readonly string[]): string | null {
+function valueKindOf(ws: readonly string[]): string | null {
   if (ws.some((w) => ['initial', 'mi'].includes(w))) return 'initial';
   if (ws.some((w) => ['ssn', 'social', 'security', 'itin', 'ein', 'tin', 'routing', 'account', 'zip', 'digits'].includes(w))) return 'digits';
   if (ws.some((w) => KIND_WORDS[6][1].includes(w))) return 'org';
@@ -150,7 +150,7 @@ export function drawPdfValue(rng: Rng, src: FieldSource, persona: Persona): PdfV
       return { value, text: value.toFixed(2) };
     }
     default: {
-      const text = src.field.ocr?.mode === 'block' ? rng.pick(NOTE_SENTENCES) : textFor(rng, kindOf(nameWords) ?? kindOf(tipWords), persona, cap);
+      const text = src.field.ocr?.mode === 'block' ? rng.pick(NOTE_SENTENCES) : textFor(rng, valueKindOf(nameWords) ?? valueKindOf(tipWords), persona, cap);
       const fitted = fitText(text, cap);
       return { value: fitted, text: fitted };
     }

@@ -8,6 +8,7 @@ import {
   BOAT_MAKES, BOAT_NAMES, BREEDS, CITIES, CROPS, FAMILY_NAMES, GIVEN_NAMES, NOTE_SENTENCES, OCCUPATIONS, PET_NAMES, STREETS,
 } from './word-lists.js';
 import { US_STATES } from '../../fields/us-states.js';
+import { applyCase, type TextOptions } from '../../fields/text.js';
 
 /** The invented person filling one page, so that name and e-mail agree. */
 export interface Persona {
@@ -69,19 +70,13 @@ function textValue(rng: Rng, kind: string, p: Persona): string {
   }
 }
 
-function applyCase(text: string, mode: unknown): string {
-  if (mode === 'upper') return text.toUpperCase();
-  if (mode === 'lower') return text.toLowerCase();
-  if (mode === 'title') return text.toLowerCase().replace(/(^|[\s-])\p{L}/gu, (m) => m.toUpperCase());
-  return text;
-}
-
 /** Draw a value for a text-like field (every type but checkbox, choice and signature). */
 export function drawValue(rng: Rng, field: LayoutField, persona: Persona): DrawnValue {
   const o = field.options;
   switch (field.type) {
     case 'text': {
-      const text = applyCase(textValue(rng, field.valueKind, persona), o.case);
+      // The text type's own case rule, so the truth is the value the field normalizes to.
+      const text = applyCase(textValue(rng, field.valueKind, persona), o.case as TextOptions['case']);
       return { value: text, text };
     }
     case 'date': {
