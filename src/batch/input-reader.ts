@@ -1,4 +1,5 @@
 import type { ClaimId, InputJob, InputOutcome, ReadingSetup } from './read-input.js';
+import { INPUTS_PER_THREAD } from './inputs-per-thread.js';
 import { readInput } from './read-input.js';
 
 /** Who reads a batch's inputs: this thread, one at a time, or a pool of worker threads (src/batch/worker-pool.ts). */
@@ -10,10 +11,13 @@ export interface InputReader {
   close(): Promise<void>;
 }
 
-/** Inputs read one after another in this thread, with the caller's detector, digit reader and OCR worker. */
+/**
+ * Inputs read in this thread with the caller's detector, digit reader and OCR worker, two at a time so one's geometry
+ * runs while the other waits on OCR (src/batch/inputs-per-thread.ts).
+ */
 export function inThreadReader(setup: ReadingSetup): InputReader {
   return {
-    concurrency: 1,
+    concurrency: INPUTS_PER_THREAD,
     read: (job, claim) => readInput(job, setup, claim),
     close: async () => undefined,
   };

@@ -12,6 +12,7 @@ import { failedLine, okLine, withRequestedId, type ResultsLine } from '../result
 import { writeReviewCrops } from '../review/crops.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { carryReviewedFields } from './carry-review.js';
+import { unchargedOcrMs } from './ocr-share.js';
 
 /** What reading any input needs: the same for every input of a run, and for every worker that serves it. */
 export interface ReadingSetup extends Omit<ExtractOptions, 'schema' | 'documentId' | 'recordedAs' | 'limits'> {
@@ -94,5 +95,7 @@ export async function readInput(job: InputJob, setup: ReadingSetup, claim: Claim
     const message = err instanceof FormgleanError ? oneLine(err) : `${job.file}: ${oneLine(err)}`;
     lines.push(failedLine(await claim(job.stem), job.recorded, message));
   }
+  // Other inputs of this thread may have been in OCR meanwhile: charge what the engine has not charged yet.
+  stages.ocr = unchargedOcrMs();
   return { lines, results, stages };
 }

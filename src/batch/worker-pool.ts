@@ -2,6 +2,7 @@ import { MessageChannel } from 'node:worker_threads';
 import Tinypool from 'tinypool';
 import { FormgleanError, oneLine } from '../errors.js';
 import { failedLine } from '../results/results-line.js';
+import { INPUTS_PER_THREAD } from './inputs-per-thread.js';
 import type { InputReader } from './input-reader.js';
 import type { ClaimAnswer, ClaimRequest, WorkerOutcome, WorkerSpec } from './worker-messages.js';
 
@@ -23,7 +24,7 @@ function workerEntry(): string {
 
 /**
  * Inputs read by `workers` threads at once, each holding its own detector session, digit reader and OCR worker for
- * its life (opened on its first input). Id claims stay in this thread: a worker asks for each one by message.
+ * its life (opened on its first input), each reading two inputs at once. Id claims stay in this thread: a worker asks for each one by message.
  */
 export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
   // Started on the first input read, so a run that keeps every input (--resume) starts no thread.
@@ -34,11 +35,13 @@ export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
       minThreads: workers,
       maxThreads: workers,
       workerData: spec,
+      // One thread reads two inputs at once: the second's geometry runs while the first waits on OCR.
+      concurrentTasksPerWorker: INPUTS_PER_THREAD,
       // Let each thread close its sessions and its tesseract worker before it ends.
       teardown: 'closeWorker',
     }));
   return {
-    concurrency: workers,
+    concurrency: workers * INPUTS_PER_THREAD,
     async read(job, claim) {
       const { port1, port2 } = new MessageChannel();
       port1.on('message', (request: ClaimRequest) => {
