@@ -5,7 +5,7 @@
  *
  *   npx tsx bench/crop-png.ts [--page FILE] [--repeat 20]
  *
- * The bundled sample is a clean render; a generated scan with grain (bench/out/batch-speed/pages-*/) is what the
+ * The bundled sample is a clean render; a generated scan with grain (the pages bench/batch-speed.ts generates) is what the
  * figures in the source comments were measured on.
  */
 import path from 'node:path';
