@@ -1,5 +1,4 @@
 import type { ClaimId, InputJob, InputOutcome, ReadingSetup } from './read-input.js';
-import { INPUTS_PER_THREAD } from './inputs-per-thread.js';
 import { readInput } from './read-input.js';
 
 /** Who reads a batch's inputs: this thread, one at a time, or a pool of worker threads (src/batch/worker-pool.ts). */
@@ -12,12 +11,12 @@ export interface InputReader {
 }
 
 /**
- * Inputs read in this thread with the caller's detector, digit reader and OCR worker, two at a time so one's geometry
- * runs while the other waits on OCR (src/batch/inputs-per-thread.ts).
+ * Inputs read in this thread with the caller's detector, digit reader and OCR worker, `inputsAtOnce` at a time (two by
+ * default, so one's geometry runs while the other waits on OCR: src/batch/inputs-per-thread.ts).
  */
-export function inThreadReader(setup: ReadingSetup): InputReader {
+export function inThreadReader(setup: ReadingSetup, inputsAtOnce: number): InputReader {
   return {
-    concurrency: INPUTS_PER_THREAD,
+    concurrency: inputsAtOnce,
     read: (job, claim) => readInput(job, setup, claim),
     close: async () => undefined,
   };
