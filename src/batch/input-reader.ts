@@ -10,10 +10,13 @@ export interface InputReader {
   close(): Promise<void>;
 }
 
-/** Inputs read one after another in this thread, with the caller's detector, digit reader and OCR worker. */
-export function inThreadReader(setup: ReadingSetup): InputReader {
+/**
+ * Inputs read in this thread with the caller's detector, digit reader and OCR worker, `inputsAtOnce` at a time (two by
+ * default, so one's geometry runs while the other waits on OCR: src/batch/inputs-per-thread.ts).
+ */
+export function inThreadReader(setup: ReadingSetup, inputsAtOnce: number): InputReader {
   return {
-    concurrency: 1,
+    concurrency: inputsAtOnce,
     read: (job, claim) => readInput(job, setup, claim),
     close: async () => undefined,
   };

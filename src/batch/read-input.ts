@@ -13,6 +13,7 @@ import { writeReviewCrops } from '../review/crops.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { carryReviewedFields } from './carry-review.js';
 import { rereadAs } from '../review/layout-question.js';
+import { unchargedOcrMs } from './ocr-share.js';
 
 /** What reading any input needs: the same for every input of a run, and for every worker that serves it. */
 export interface ReadingSetup extends Omit<ExtractOptions, 'schema' | 'documentId' | 'recordedAs' | 'limits'> {
@@ -103,5 +104,7 @@ export async function readInput(job: InputJob, setup: ReadingSetup, claim: Claim
     const message = err instanceof FormgleanError ? oneLine(err) : `${job.file}: ${oneLine(err)}`;
     lines.push(failedLine(await claim(job.stem), job.recorded, message));
   }
+  // Other inputs of this thread may have been in OCR meanwhile: charge what the engine has not charged yet.
+  stages.ocr = unchargedOcrMs(setup.ocr);
   return { lines, results, stages };
 }

@@ -25,6 +25,7 @@ import { writeReviewQueue } from '../review/queue-write.js';
 import type { LoadedSchema } from '../schema/load.js';
 import { sameInputs, type ReadingSetup } from './read-input.js';
 import { inThreadReader, type InputReader } from './input-reader.js';
+import { INPUTS_PER_THREAD } from './inputs-per-thread.js';
 import { openWorkerPool } from './worker-pool.js';
 import { discoverInputs, documentIds } from './discover.js';
 import { IdClaims } from './id-claims.js';
@@ -54,6 +55,8 @@ export interface BatchOptions {
   workers?: number;
   /** onnxruntime intra-op threads of each worker's detector session (default: the cores shared out, at least 1). */
   threadsPerWorker?: number;
+  /** Inputs each thread reads at once (default 2, src/batch/inputs-per-thread.ts); 1 reads them strictly one after another. */
+  inputsPerThread?: number;
   /** Stop starting inputs: the ones in progress finish, then the index and the review queue are written. */
   signal?: AbortSignal;
   /** Called once the inputs are found, before any is read. */
@@ -184,7 +187,8 @@ function inputReader(options: BatchOptions, workers: number, references: Referen
     digitReader: options.digitReader,
     today: options.today,
   };
-  if (workers <= 1) return inThreadReader(setup);
+  const perThread = Math.max(1, options.inputsPerThread ?? INPUTS_PER_THREAD);
+  if (workers <= 1) return inThreadReader(setup, perThread);
   // Each worker's detector gets its share of the cores, so W workers do not start W x cores operator threads
   // (the detector is the only multi-threaded stage; tesseract.js and the digit reader run one thread each).
   const threads = options.threadsPerWorker ?? Math.max(1, Math.floor(availableCores() / workers));
@@ -194,6 +198,7 @@ function inputReader(options: BatchOptions, workers: number, references: Referen
   return openWorkerPool(
     { ...rest, schemas: schemas.map(({ schema, path, sha256 }) => ({ schema, path, sha256 })), modelPath: options.detector.path, intraOpThreads: threads, digitModelPath: options.digitReader?.path },
     workers,
+    perThread,
   );
 }
 

@@ -23,9 +23,9 @@ function workerEntry(): string {
 
 /**
  * Inputs read by `workers` threads at once, each holding its own detector session, digit reader and OCR worker for
- * its life (opened on its first input). Id claims stay in this thread: a worker asks for each one by message.
+ * its life (opened on its first input), each reading `inputsPerThread` inputs at once. Id claims stay in this thread: a worker asks for each one by message.
  */
-export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
+export function openWorkerPool(spec: WorkerSpec, workers: number, inputsPerThread: number): InputReader {
   // Started on the first input read, so a run that keeps every input (--resume) starts no thread.
   let pool: Tinypool | null = null;
   const started = () =>
@@ -34,11 +34,13 @@ export function openWorkerPool(spec: WorkerSpec, workers: number): InputReader {
       minThreads: workers,
       maxThreads: workers,
       workerData: spec,
+      // A thread reads several inputs at once (two by default): one's geometry runs while another waits on OCR.
+      concurrentTasksPerWorker: inputsPerThread,
       // Let each thread close its sessions and its tesseract worker before it ends.
       teardown: 'closeWorker',
     }));
   return {
-    concurrency: workers,
+    concurrency: workers * inputsPerThread,
     async read(job, claim) {
       const { port1, port2 } = new MessageChannel();
       port1.on('message', (request: ClaimRequest) => {

@@ -112,7 +112,7 @@ async function referenceImages(input: string, out: string, pages: GrayImage[], c
       continue;
     }
     const file = `${stemOf(out)}.page${i + 1}.png`;
-    await writeFileAtomic(file, await grayToPng(pages[i]));
+    await writeFileAtomic(file, await grayToPng(pages[i], 6));
     written.push(file);
     names.push(path.relative(dir, path.resolve(file)).split(path.sep).join('/'));
   }

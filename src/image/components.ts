@@ -17,12 +17,16 @@ export interface Labeling {
   components: Component[];
 }
 
+/** Breadth-first queue shared by every labeling in this thread (labelComponents is synchronous), grown as needed. */
+let scratch = new Int32Array(0);
+
 /** 8-connected component labeling of the ink pixels (breadth-first flood fill; common practice). */
 export function labelComponents(img: GrayImage): Labeling {
   const { width: w, height: h, data } = img;
   const labels = new Int32Array(w * h);
   const components: Component[] = [];
-  const queue = new Int32Array(w * h);
+  if (scratch.length < w * h) scratch = new Int32Array(w * h);
+  const queue = scratch;
   for (let start = 0; start < w * h; start++) {
     if (data[start] !== INK || labels[start] !== 0) continue;
     const id = components.length + 1;
@@ -33,17 +37,62 @@ export function labelComponents(img: GrayImage): Labeling {
     while (head < tail) {
       const p = queue[head++];
       const px = p % w, py = (p - px) / w;
+      let q: number;
       if (px < x0) x0 = px;
       if (px > x1) x1 = px;
       if (py < y0) y0 = py;
       if (py > y1) y1 = py;
+      if (px > 0 && py > 0 && px < w - 1 && py < h - 1) {
+        // Inside the border every neighbour exists: no bounds tests (most ink pixels of a page or crop).
+        q = p - w - 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p - w;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p - w + 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p - 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p + 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p + w - 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p + w;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        q = p + w + 1;
+        if (data[q] === INK && labels[q] === 0) {
+          labels[q] = id;
+          queue[tail++] = q;
+        }
+        continue;
+      }
       for (let dy = -1; dy <= 1; dy++) {
         const ny = py + dy;
         if (ny < 0 || ny >= h) continue;
         for (let dx = -1; dx <= 1; dx++) {
           const nx = px + dx;
           if (nx < 0 || nx >= w) continue;
-          const q = ny * w + nx;
+          q = ny * w + nx;
           if (data[q] === INK && labels[q] === 0) {
             labels[q] = id;
             queue[tail++] = q;

@@ -18,29 +18,37 @@ export function inkMapOf(img: GrayImage, factor: number): InkMap {
   const k = Math.max(1, Math.floor(factor));
   const w = Math.ceil(img.width / k);
   const h = Math.ceil(img.height / k);
-  const sum = new Float32Array(w * h);
-  const cnt = new Float32Array(w * h);
-  const col = new Int32Array(img.width);
-  for (let x = 0; x < img.width; x++) col[x] = Math.floor(x / k);
+  const out = new Float32Array(w * h);
+  // Whole-number block sums in an integer row, one block row at a time: the same sums a float accumulator holds
+  // exactly (at most 255 k^2, far under 2^24), so the map is the same, without a float read-modify-write per pixel.
+  const acc = new Int32Array(w);
   const d = img.data;
-  for (let y = 0; y < img.height; y++) {
-    const row = Math.floor(y / k) * w;
-    const src = y * img.width;
-    for (let x = 0; x < img.width; x++) {
-      const o = row + col[x];
-      sum[o] += 255 - d[src + x];
-      cnt[o]++;
+  const iw = img.width;
+  for (let by = 0; by < h; by++) {
+    acc.fill(0);
+    const yStart = by * k;
+    const yEnd = Math.min(img.height, yStart + k);
+    for (let y = yStart; y < yEnd; y++) {
+      const src = y * iw;
+      for (let bx = 0; bx < w; bx++) {
+        const xEnd = Math.min(iw, (bx + 1) * k);
+        let paper = 0;
+        for (let x = bx * k; x < xEnd; x++) paper += d[src + x];
+        acc[bx] += (xEnd - bx * k) * 255 - paper;
+      }
     }
+    const rows = yEnd - yStart;
+    for (let bx = 0; bx < w; bx++) out[by * w + bx] = acc[bx] / (rows * (Math.min(iw, (bx + 1) * k) - bx * k) * 255);
   }
-  for (let i = 0; i < sum.length; i++) sum[i] = sum[i] / (cnt[i] * 255);
-  return { width: w, height: h, data: sum, factor: k };
+  return { width: w, height: h, data: out, factor: k };
 }
 
 const blurredCache = new WeakMap<GrayImage, Map<string, InkMap>>();
 
 /**
  * inkMapOf followed by `passes` box blurs of radius r, remembered per raster: a batch registers many pages to the
- * same few blank references, and layout matching registers one page to several references. Rasters are treated
+ * same few blank references, and layout matching registers one page to several references. The unblurred map is
+ * remembered too: the coarse level is blurred two ways (profile start and first refinement). Rasters are treated
  * as immutable once made, as everywhere in this code.
  */
 export function blurredInkMap(img: GrayImage, factor: number, radius: number, passes: number): InkMap {
@@ -49,14 +57,19 @@ export function blurredInkMap(img: GrayImage, factor: number, radius: number, pa
     perImage = new Map();
     blurredCache.set(img, perImage);
   }
-  const key = `${factor}/${radius}/${passes}`;
-  let m = perImage.get(key);
-  if (!m) {
-    m = inkMapOf(img, factor);
+  const remembered = (key: string, make: () => InkMap): InkMap => {
+    let m = perImage.get(key);
+    if (!m) {
+      m = make();
+      perImage.set(key, m);
+    }
+    return m;
+  };
+  return remembered(`${factor}/${radius}/${passes}`, () => {
+    let m = remembered(`${factor}`, () => inkMapOf(img, factor));
     for (let i = 0; i < passes; i++) m = boxBlur(m, radius);
-    perImage.set(key, m);
-  }
-  return m;
+    return m;
+  });
 }
 
 /** Separable box blur of radius r (window 2r+1), edges clamped; twice applied it approximates a Gaussian. */

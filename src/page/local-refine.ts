@@ -3,7 +3,7 @@ import { composeAffine, transformBox } from '../image/geometry.js';
 import type { GrayImage } from '../image/raster.js';
 import { cropGray } from '../image/raster.js';
 import { translation, warpGray } from '../image/warp.js';
-import { summedArea, windowTotal, type SummedArea } from '../image/summed-area.js';
+import { summedArea, totals, windowTotal, type SummedArea } from '../image/summed-area.js';
 
 /**
  * Field-by-field touch-up of a page alignment. One affine transform cannot follow a sheet that lay curved or
@@ -48,6 +48,19 @@ function plane(data: Float32Array, width: number, height: number): Plane {
   return { data, ...summedArea(data, width, height) };
 }
 
+/** The template side: it is only ever taken whole, so its two totals stand in for its tables. */
+interface Template {
+  data: Float32Array;
+  width: number;
+  height: number;
+  sum: number;
+  sumSq: number;
+}
+
+function template(data: Float32Array, width: number, height: number): Template {
+  return { data, width, height, ...totals(data) };
+}
+
 /** Every second pixel of every second row, from (0, 0): what the coarse search sampled in place before. */
 function decimate(data: Float32Array, width: number, height: number): { data: Float32Array; width: number; height: number } {
   const w2 = Math.ceil(width / 2);
@@ -58,7 +71,7 @@ function decimate(data: Float32Array, width: number, height: number): { data: Fl
 }
 
 /** Zero-mean normalized cross-correlation of the template plane with the image plane placed at (ox, oy). */
-function ncc(tpl: Plane, img: Plane, ox: number, oy: number): number {
+function ncc(tpl: Template, img: Plane, ox: number, oy: number): number {
   const tw = tpl.width;
   const th = tpl.height;
   const iw = img.width;
@@ -83,8 +96,9 @@ function ncc(tpl: Plane, img: Plane, ox: number, oy: number): number {
   }
   const sti = s0 + s1 + s2 + s3;
   const n = tw * th;
-  const st = windowTotal(tpl.sum, tw, 0, 0, tw, th);
-  const vt = windowTotal(tpl.sumSq, tw, 0, 0, tw, th) - (st * st) / n;
+  // Ink values are whole numbers, so these sums are exact in any order: the totals equal the tables' corners.
+  const st = tpl.sum;
+  const vt = tpl.sumSq - (st * st) / n;
   const si = windowTotal(img.sum, iw, ox, oy, ox + tw, oy + th);
   const vi = windowTotal(img.sumSq, iw, ox, oy, ox + tw, oy + th) - (si * si) / n;
   if (vt <= 1e-6 || vi <= 1e-6) return -1;
@@ -107,12 +121,12 @@ export function refineRegion(page: GrayImage, reference: GrayImage, refToPage: A
   const img = inkOf(sampled);
   const iw = w + 2 * s;
   const ih = h + 2 * s;
-  const fineTpl = plane(tpl, w, h);
+  const fineTpl = template(tpl, w, h);
   const fineImg = plane(img, iw, ih);
   // Coarse offsets dx + s run over even numbers, so every sampled pixel lies on the even grid of both planes.
   const t2 = decimate(tpl, w, h);
   const i2 = decimate(img, iw, ih);
-  const coarseTpl = plane(t2.data, t2.width, t2.height);
+  const coarseTpl = template(t2.data, t2.width, t2.height);
   const coarseImg = plane(i2.data, i2.width, i2.height);
   let best: [number, number] = [0, 0];
   let bestScore = -2;

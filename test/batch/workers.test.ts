@@ -3,9 +3,9 @@ import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DocumentResult } from '../../src/result/document.js';
 import { STAGES } from '../../src/results/stage-times.js';
 import { generateSamples } from '../../src/synth/generate.js';
+import { records } from './records.js';
 import { REPO, runCli } from '../cli/run-cli.js';
 
 const SCHEMA = path.join(REPO, 'schemas/clinic-intake.yaml');
@@ -36,16 +36,6 @@ beforeAll(async () => {
 afterAll(async () => {
   if (work) await rm(work, { recursive: true, force: true });
 });
-
-/** Each record of a results folder without what differs between two runs of the same input (when it was made, how long it took). */
-async function records(dir: string): Promise<Map<string, unknown>> {
-  const out = new Map<string, unknown>();
-  for (const name of (await readdir(dir)).filter((f) => f.endsWith('.json') && f !== 'summary.json').sort()) {
-    const r = DocumentResult.parse(JSON.parse(await readFile(path.join(dir, name), 'utf8')));
-    out.set(name, { ...r, createdAt: undefined, seconds: undefined });
-  }
-  return out;
-}
 
 describe('extract --workers (real detector and OCR in worker threads)', () => {
   it('writes the same records with 1 and 2 workers; one progress step per input; stage times in summary.json; --json-log carries no field values', async () => {

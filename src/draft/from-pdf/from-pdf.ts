@@ -68,7 +68,7 @@ export function blankImageName(out: string): string {
 /** Write the schema YAML and its blank reference image beside it (both atomically). */
 export async function writePdfSchema(draft: PdfSchemaDraft, out: string): Promise<{ schema: string; blank: string }> {
   const blank = path.join(path.dirname(out), draft.schema.pages[0].image);
-  await writeFileAtomic(blank, await grayToPng(draft.blank));
+  await writeFileAtomic(blank, await grayToPng(draft.blank, 6));
   await writeFileAtomic(out, schemaYaml(draft.schema));
   return { schema: out, blank };
 }

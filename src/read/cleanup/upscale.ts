@@ -14,15 +14,24 @@ export function resizeBilinear(img: GrayImage, factor: number): GrayImage {
   const h = Math.max(1, Math.round(img.height * factor));
   const out = createGray(w, h);
   const sx = img.width / w, sy = img.height / h;
+  // Each column's source pair and weight once, not once per row: the same numbers, fewer divisions and floors.
+  const xs0 = new Int32Array(w), xs1 = new Int32Array(w), txs = new Float64Array(w);
+  for (let x = 0; x < w; x++) {
+    const fx = Math.min(img.width - 1, Math.max(0, (x + 0.5) * sx - 0.5));
+    xs0[x] = Math.floor(fx);
+    xs1[x] = Math.min(img.width - 1, xs0[x] + 1);
+    txs[x] = fx - xs0[x];
+  }
+  const src = img.data;
   for (let y = 0; y < h; y++) {
     const fy = Math.min(img.height - 1, Math.max(0, (y + 0.5) * sy - 0.5));
     const y0 = Math.floor(fy), y1 = Math.min(img.height - 1, y0 + 1), ty = fy - y0;
+    const r0 = y0 * img.width, r1 = y1 * img.width, o = y * w;
     for (let x = 0; x < w; x++) {
-      const fx = Math.min(img.width - 1, Math.max(0, (x + 0.5) * sx - 0.5));
-      const x0 = Math.floor(fx), x1 = Math.min(img.width - 1, x0 + 1), tx = fx - x0;
-      const a = img.data[y0 * img.width + x0], b = img.data[y0 * img.width + x1];
-      const c = img.data[y1 * img.width + x0], d = img.data[y1 * img.width + x1];
-      out.data[y * w + x] = Math.round((a * (1 - tx) + b * tx) * (1 - ty) + (c * (1 - tx) + d * tx) * ty);
+      const x0 = xs0[x], x1 = xs1[x], tx = txs[x];
+      const a = src[r0 + x0], b = src[r0 + x1];
+      const c = src[r1 + x0], d = src[r1 + x1];
+      out.data[o + x] = Math.round((a * (1 - tx) + b * tx) * (1 - ty) + (c * (1 - tx) + d * tx) * ty);
     }
   }
   return out;
