@@ -1,4 +1,5 @@
 import type { OcrWord, TextReading } from '../fields/types.js';
+import { clampBox, roundBox, type Box } from '../image/geometry.js';
 import { cropGray } from '../image/raster.js';
 import { joinCells } from './comb-cells.js';
 import type { FieldCrop } from './crop.js';
@@ -24,14 +25,29 @@ export interface DigitCombReading {
  */
 export const DOUBTFUL_EMPTY = 0.2;
 
+export interface DigitCombOptions {
+  /** The comb's cell count when the schema knows it (a comb widget's maximum length: ISO 32000-1 §12.7.4.3, the
+   *  comb flag divides the field evenly into that many cells). */
+  cells?: number;
+}
+
+/** `n` equal cells across the located box: how a comb widget lays its characters out (ISO 32000-1 §12.7.4.3). */
+export function evenCells(inner: Box, n: number): Box[] {
+  const w = inner.w / n;
+  return Array.from({ length: n }, (_, i) => ({ x: inner.x + i * w, y: inner.y, w, h: inner.h }));
+}
+
 /**
  * Read a comb field with the digit reader: the cells are cut at the printed separators (the same cut the OCR's
- * cell-by-cell variant uses), each cell's gray pixels go to the model in one batch. Null when fewer than two cells
- * are found (not a comb after all, or its separators were lost).
+ * cell-by-cell variant uses), each cell's gray pixels go to the model in one batch. Many printed combs have no
+ * separators to find: a row of short underlines (US court forms' SSN boxes), a single baseline (VA forms), dotted
+ * ticks lost in the scan. When fewer than two cells are found and the schema gives the cell count, the box is cut
+ * into that many equal cells instead. Null when neither gives two cells (not a comb after all).
  */
-export async function readDigitComb(crop: FieldCrop, reader: DigitReader): Promise<DigitCombReading | null> {
+export async function readDigitComb(crop: FieldCrop, reader: DigitReader, options: DigitCombOptions = {}): Promise<DigitCombReading | null> {
   // The page was deskewed as a whole and the crop is not rotated, so the cell boxes index the gray crop directly.
-  const { cells: boxes } = locateCombCells(crop, { name: 'digit_cells', steps: ['otsu'] }, 0);
+  let { cells: boxes } = locateCombCells(crop, { name: 'digit_cells', steps: ['otsu'] }, 0);
+  if (boxes.length < 2 && options.cells !== undefined && options.cells >= 2) boxes = evenCells(crop.inner, options.cells).map((b) => clampBox(roundBox(b), crop.image.width, crop.image.height));
   if (boxes.length < 2) return null;
   const cells = await reader.readCells(boxes.map((b) => cropGray(crop.image, b)));
   const chars: (string | null)[] = [];
