@@ -6,21 +6,23 @@
  *  1. `samples fill --fill handwriting --real-digits` (src/synth/pdf-fill/): N pages written in the handwriting fonts,
  *     the digits of comb boxes (and of digit-only fields) real handwritten digits from the MNIST test split
  *     (src/synth/mnist-digits.ts; never trained on), light scan degradation; page i depends only on seed and i;
- *  2. the digit combs of the form: comb fields the filler wrote digits alone into on every page it did not leave
- *     them blank (SSN, EIN, ITIN, account, routing, file and ZIP boxes; combs of names and words are left out);
+ *  2. the digit combs of the form: comb fields the filler wrote digits alone into (SSN, EIN, ITIN, account,
+ *     routing, file and ZIP boxes; and, where a field's name says nothing of its content, the pages on which the
+ *     filler chose digits for it); combs of names and words are left out;
  *  3. `extract` through the real batch runner with the shipped detector and the drafted schema reduced to those
  *     combs, a text comb given the pattern ^[0-9]+$ (what a person checking the drafted schema writes for a box of
  *     digits; without a digits-only pattern or type a comb is not read digit by digit), schema defaults (review
  *     threshold 0.75, no confidence map: the drafted schema has none); twice, over the same pages in the same run:
  *     with Tesseract alone and with the digit reader beside it (--digit-model, default the shipped one);
- *  4. `score` against the truth the filler wrote, over the digit combs that hold writing.
+ *  4. `score` against the truth the filler wrote, over the digit combs that hold digits on the page.
  * Then per form and per half (bench/real-forms-split.json: development for choices, held-out for reported
  * figures): comb fields written, exact (normalized value = truth), accepted (without review), wrong among accepted,
  * and how often the digit reader's cells were cut (cells found). No field values are printed.
  *
  * Options: --forms DIR, --count N (pages per form, default 8), --seed S (default 920000), --half dev|held-out|all,
  * --only a,b (file stems), --digit-model FILE, --out DIR (default bench/out/real-form-combs), --reuse (keep filled
- * pages already there), --json FILE (the figures as JSON).
+ * pages already there), --arms ocr,digits (which of the two to run: e.g. --reuse --arms digits to compare another
+ * digit model on the same pages), --json FILE (the figures as JSON).
  */
 import { existsSync } from 'node:fs';
 import { readdir, readFile, rm } from 'node:fs/promises';
@@ -55,6 +57,7 @@ const { values: args } = parseArgs({
     out: { type: 'string', default: path.join(ROOT, 'bench', 'out', 'real-form-combs') },
     reuse: { type: 'boolean', default: false },
     json: { type: 'string' },
+    arms: { type: 'string', default: 'ocr,digits' },
   },
 });
 const count = Number(args.count);
@@ -75,16 +78,12 @@ const say = (s: string): void => void process.stderr.write(`${s}\n`);
 /** A digit pattern for text combs: digits only, any count (the cell count bounds it through maxLength). */
 const DIGITS = '^[0-9]+$';
 
-/** Comb fields the filler wrote digits alone into on every page where it wrote anything. */
+/** Comb fields the filler wrote digits alone into on at least one page (on forms whose field names say nothing of
+ *  their content, the filler writes digits on some pages and words on others; only the digit pages are scored). */
 function digitCombs(truths: readonly PageTruth[]): Set<string> {
-  const seen = new Map<string, boolean>();
-  for (const t of truths) {
-    for (const f of t.fields) {
-      if (f.class !== 'comb_field' || f.text === null) continue;
-      seen.set(f.name, (seen.get(f.name) ?? true) && /^[0-9]+$/.test(f.text));
-    }
-  }
-  return new Set([...seen].filter(([, digits]) => digits).map(([name]) => name));
+  const names = new Set<string>();
+  for (const t of truths) for (const f of t.fields) if (f.class === 'comb_field' && f.text !== null && /^[0-9]+$/.test(f.text)) names.add(f.name);
+  return names;
 }
 
 function reduce(full: LoadedSchema, names: Set<string>): LoadedSchema {
@@ -113,13 +112,14 @@ interface Tally {
   cut: number;
 }
 const zero = (): Tally => ({ fields: 0, exact: 0, accepted: 0, wrongAccepted: 0, cut: 0 });
-const ARMS = ['ocr', 'digits'] as const;
+const ARMS = (['ocr', 'digits'] as const).filter((a) => args.arms!.split(',').includes(a));
+if (ARMS.length === 0) throw new Error(`--arms: ocr, digits or both; got "${args.arms}"`);
 interface Row {
   form: string;
   half: string;
   combs: number;
   note: string | null;
-  arms: Record<(typeof ARMS)[number], Tally>;
+  arms: Record<'ocr' | 'digits', Tally>;
 }
 
 const rows: Row[] = [];
@@ -155,7 +155,7 @@ try {
         await runBatch({ inputs: pages, schemas: [schema], detector, outDir: results, digitReader: arm === 'digits' ? reader : undefined });
         const inputs = await loadScoreInputs(results, samples);
         const written = new Set<string>();
-        for (const [doc, t] of inputs.truth) for (const f of t.fields) if (combs.has(f.name) && f.text !== null) written.add(`${doc}\u0000${f.name}`);
+        for (const [doc, t] of inputs.truth) for (const f of t.fields) if (combs.has(f.name) && f.text !== null && /^[0-9]+$/.test(f.text)) written.add(`${doc}\u0000${f.name}`);
         const tally = row.arms[arm];
         for (const i of scoreAll({ ...inputs, bins: 10 }).items) {
           if (!written.has(`${i.document}\u0000${i.field}`)) continue;
@@ -170,7 +170,7 @@ try {
           for (const f of r.fields) if (written.has(`${doc}\u0000${f.name}`) && (f.details as { digitCells?: unknown } | undefined)?.digitCells) tally.cut++;
         }
       }
-      say(`${form}: ${combs.size} digit combs, ${row.arms.ocr.fields} written; exact ${row.arms.ocr.exact} -> ${row.arms.digits.exact}`);
+      say(`${form}: ${combs.size} digit combs; exact ${ARMS.map((a) => `${a} ${row.arms[a].exact}/${row.arms[a].fields}`).join(', ')}`);
     } catch (err) {
       row.note = oneLine(err);
       say(`${form}: failed: ${row.note}`);
@@ -183,7 +183,7 @@ try {
 }
 
 const pct = (a: number, b: number) => (b > 0 ? `${((100 * a) / b).toFixed(1)} %` : '-');
-const sum = (rs: readonly Row[], arm: (typeof ARMS)[number]): Tally =>
+const sum = (rs: readonly Row[], arm: 'ocr' | 'digits'): Tally =>
   rs.reduce((t, r) => ({ fields: t.fields + r.arms[arm].fields, exact: t.exact + r.arms[arm].exact, accepted: t.accepted + r.arms[arm].accepted, wrongAccepted: t.wrongAccepted + r.arms[arm].wrongAccepted, cut: t.cut + r.arms[arm].cut }), zero());
 const cells = (t: Tally, arm: string) => [String(t.fields), pct(t.exact, t.fields), pct(t.accepted, t.fields), `${pct(t.wrongAccepted, t.accepted)} (${t.wrongAccepted}/${t.accepted})`, arm === 'digits' ? pct(t.cut, t.fields) : ''];
 const HEADER = ['form', 'combs', 'reader', 'fields', 'exact', 'accepted', 'wrong|acc', 'cells cut'];
@@ -194,14 +194,14 @@ for (const half of ['dev', 'held-out', 'unsplit'] as const) {
   const body: string[][] = [];
   for (const r of rs) {
     if (r.note !== null) body.push([r.form, String(r.combs), r.note.slice(0, 70), '', '', '', '', '']);
-    else for (const arm of ARMS) body.push([arm === 'ocr' ? r.form : '', arm === 'ocr' ? String(r.combs) : '', arm === 'ocr' ? 'tesseract' : '+ digit reader', ...cells(r.arms[arm], arm)]);
+    else for (const arm of ARMS) body.push([arm === ARMS[0] ? r.form : '', arm === ARMS[0] ? String(r.combs) : '', arm === 'ocr' ? 'tesseract' : '+ digit reader', ...cells(r.arms[arm], arm)]);
   }
-  for (const arm of ARMS) body.push([arm === 'ocr' ? 'pooled' : '', '', arm === 'ocr' ? 'tesseract' : '+ digit reader', ...cells(sum(rs, arm), arm)]);
+  for (const arm of ARMS) body.push([arm === ARMS[0] ? 'pooled' : '', '', arm === 'ocr' ? 'tesseract' : '+ digit reader', ...cells(sum(rs, arm), arm)]);
   out.push(half === 'dev' ? 'development half' : half === 'held-out' ? 'held-out half' : 'forms outside the split', formatRows(HEADER, body), '');
 }
 out.push(
   `${count} handwriting pages per form, seed ${seed}, light scans; comb digits: MNIST test split; digit model ${path.relative(ROOT, args['digit-model']!)}.`,
-  'fields: digit combs holding writing (pages x combs); exact: normalized value = truth; accepted: without review; ' +
+  'fields: digit combs holding digits on the page (pages x combs); exact: normalized value = truth; accepted: without review; ' +
     'wrong|acc: wrong among accepted; cells cut: fields the digit reader read cell by cell (else Tesseract alone).',
 );
 process.stdout.write(`${out.join('\n')}\n`);
