@@ -44,6 +44,23 @@ describe('digit combs without printed separators (a real form)', () => {
     expect(right).toBeGreaterThanOrEqual(17);
   });
 
+  it('reads a comb whose dotted ticks group the cells 3-2-4 off the cell edges (IRS Form 1040 SSN)', async () => {
+    const f1040 = await grayFromImage(path.resolve('test/fixtures/real-forms/irs-f1040-ssn-handwritten.png'));
+    for (const c of [
+      { box: { x: 23, y: 20, w: 299, h: 44 }, digits: '2059' },
+      { box: { x: 24, y: 86, w: 299, h: 45 }, digits: '2593' },
+    ]) {
+      // Two dotted ticks are all the separators there are: too few cells without the count.
+      const bare = await readDigitComb(cropField(f1040, c.box, 4), reader);
+      expect(bare === null || bare.cells.length < 9).toBe(true);
+      const read = await readDigitComb(cropField(f1040, c.box, 4), reader, { cells: 9 });
+      expect(read!.cells).toHaveLength(9);
+      // The ticks run down the middle of the third and fifth cells: painted out, they are no "1" in an empty cell.
+      expect(read!.cells.slice(4).map((x) => x.label)).toEqual(['empty', 'empty', 'empty', 'empty', 'empty']);
+      expect(read!.reading.text).toBe(c.digits);
+    }
+  });
+
   it('cuts n equal cells across the box', () => {
     const cells = evenCells({ x: 10, y: 5, w: 110, h: 40 }, 11);
     expect(cells).toHaveLength(11);
