@@ -9,6 +9,7 @@ import { DigitReader } from '../../src/read/digit-reader.js';
 import { fillPdfSamples } from '../../src/synth/pdf-fill/fill-pdf.js';
 import { loadSchema } from '../../src/schema/load.js';
 import type { PageTruth } from '../../src/synth/truth.js';
+import { runCli } from '../cli/run-cli.js';
 
 // A real fillable form (US Bankruptcy Court B 121: SSN and ITIN comb widgets; source note in
 // test/fixtures/real-forms/) filled on handwriting pages with and without --real-digits, no scan degradation, so the
@@ -97,4 +98,12 @@ describe('samples fill --real-digits', () => {
     // is on the filler putting real digits in the form's real cells, not on the model's last per cent.
     expect(right / digits).toBeGreaterThanOrEqual(0.85);
   }, 60_000);
+
+  it('is the command line\'s --real-digits: `samples fill` writes the same pixels as the library call', async () => {
+    const out = path.join(dir, 'cli');
+    const run = await runCli(['samples', 'fill', FORM, '--out', out, '--count', '1', '--seed', '31', '--fill', 'handwriting', '--degrade', 'none', '--real-digits']);
+    expect(run.code, run.stderr).toBe(0);
+    const page = await grayFromImage(path.join(out, pages.real[0].truth.file));
+    expect(Buffer.from(page.data).equals(Buffer.from(pages.real[0].image.data))).toBe(true);
+  }, 120_000);
 });
