@@ -6,7 +6,10 @@
  * comb fields are scored against the truth: exact share, accepted share, wrong among accepted.
  *
  *   npx tsx bench/digit-comb-pages.ts [--set dev|eval] [--count 30] [--fill handwriting|typed] [--font-digits]
- *                                     [--out out/digit-pages]
+ *                                     [--out out/digit-pages] [--digit-model FILE] [--reuse]
+ *
+ * --digit-model: the digit model of the second arm (default the shipped one); --reuse: keep the pages already
+ * generated in --out (they depend only on layout, seed and index), e.g. to compare two digit models on the same pages.
  *
  * --font-digits writes the comb digits in the page's font like the rest (with --fill typed: printed entries, where
  * Tesseract keeps its value unless the digit reader is measured better).
@@ -16,6 +19,7 @@
  * maps were fitted on Tesseract's reads of font handwriting, and a reduced form has no other fields for the
  * legibility factor, so both arms are judged alike by the uncalibrated score.
  */
+import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { runBatch } from '../src/batch/run-batch.js';
@@ -23,7 +27,7 @@ import { loadDetector } from '../src/detect/onnx-detector.js';
 import { scoreAll } from '../src/eval/score.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
 import { DEFAULT_MODEL_PATH } from '../src/models.js';
-import { DigitReader } from '../src/read/digit-reader.js';
+import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../src/read/digit-reader.js';
 import { OcrEngine } from '../src/read/ocr-engine.js';
 import { loadSchema, resolveSchema, type LoadedSchema } from '../src/schema/load.js';
 import { generateSamples } from '../src/synth/generate.js';
@@ -38,6 +42,8 @@ const { values: args } = parseArgs({
     fill: { type: 'string', default: 'handwriting' },
     out: { type: 'string', default: 'out/digit-pages' },
     'font-digits': { type: 'boolean', default: false },
+    'digit-model': { type: 'string', default: DEFAULT_DIGIT_MODEL_PATH },
+    reuse: { type: 'boolean', default: false },
   },
 });
 const COMBS = { 'clinic-intake': 'tag_number', 'garden-plot': 'member_no' } as const;
@@ -50,14 +56,14 @@ const out = path.resolve(args.out!, `${set}-${fill}${realDigits ? '' : '-font'}`
 const say = (s: string) => void process.stderr.write(`${s}\n`);
 
 const detector = await loadDetector(DEFAULT_MODEL_PATH);
-const reader = await DigitReader.open();
+const reader = await DigitReader.open(args['digit-model']);
 const rows: string[] = [];
 try {
   for (const arm of ['ocr', 'digits'] as const) {
     let exact = 0, accepted = 0, wrongAccepted = 0, total = 0, disagree = 0;
     for (const [layout, fieldName] of Object.entries(COMBS) as [keyof typeof COMBS, string][]) {
       const samples = path.join(out, 'samples', layout);
-      if (arm === 'ocr') {
+      if (arm === 'ocr' && !(args.reuse && existsSync(path.join(samples, 'truth')))) {
         const g = await generateSamples({
           layout, count, seed: SEEDS[set][layout], out: samples, fill, degrade: 'light', styles: 'heldout', format: 'png', upsideDownRate: 0, realDigits,
         });
@@ -99,5 +105,5 @@ try {
   await ocr.close();
 }
 process.stdout.write(
-  `digit-comb-pages: set ${set}, fill ${fill}, comb digits ${realDigits ? 'MNIST test split' : 'in the page font'}, ${count} pages per layout (demo layouts, light scans)\n${rows.join('\n')}\n`,
+  `digit-comb-pages: digit model ${args['digit-model']}, set ${set}, fill ${fill}, comb digits ${realDigits ? 'MNIST test split' : 'in the page font'}, ${count} pages per layout (demo layouts, light scans)\n${rows.join('\n')}\n`,
 );

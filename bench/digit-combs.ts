@@ -3,7 +3,10 @@
  * the last 15 % of each class, never trained on), written into rendered comb boxes.
  *
  *   npx tsx bench/digit-combs.ts [--strips N] [--seed S] [--degrade none|light|heavy] [--half all|even|odd]
- *                                [--json out/digit-combs.json] [--fit-from dev.json]
+ *                                [--json out/digit-combs.json] [--fit-from dev.json] [--model FILE] [--reader-only]
+ *
+ * --model: the digit model to measure (default the shipped one); --reader-only: part 1 for the digit reader alone
+ * (per-digit accuracy and speed, no Tesseract and no fields), a quick comparison of training runs.
  *
  * 1. Cells: the test digits, shuffled with the seed, six to a comb strip (cells 34..48 x 44..58 px, as comb boxes
  *    at 200 DPI; box stroke 1..3 px), scan noise of the chosen level. Each cell is cut at the printed separators
@@ -27,7 +30,7 @@ import { buildFieldResult } from '../src/pipeline/field-result.js';
 import { readLocatedField } from '../src/pipeline/read-field.js';
 import { cellImage } from '../src/read/comb-cells.js';
 import { cropField } from '../src/read/crop.js';
-import { DigitReader } from '../src/read/digit-reader.js';
+import { DEFAULT_DIGIT_MODEL_PATH, DigitReader } from '../src/read/digit-reader.js';
 import { OcrEngine } from '../src/read/ocr-engine.js';
 import { locateCombCells } from '../src/read/read-text.js';
 import { removeDashedRules } from '../src/read/cleanup/line-removal.js';
@@ -46,8 +49,11 @@ const { values: args } = parseArgs({
     json: { type: 'string' },
     'fit-from': { type: 'string' },
     half: { type: 'string', default: 'all' },
+    model: { type: 'string', default: DEFAULT_DIGIT_MODEL_PATH },
+    'reader-only': { type: 'boolean', default: false },
   },
 });
+const readerOnly = args['reader-only']!;
 const seed = Number(args.seed);
 
 /** Lowest confidence threshold with at most `maxError` wrong among the decidable fields at or above it (1.01: none). */
@@ -70,7 +76,7 @@ for (let d = 0; d <= 9; d++) for (const index of testIndices(d)) if (parity === 
 const order = new Rng(seed).shuffle(all);
 const stripCount = Math.min(Math.floor(order.length / CELLS), args.strips ? Number(args.strips) : Infinity);
 
-const reader = await DigitReader.open();
+const reader = await DigitReader.open(args.model);
 const engine = new OcrEngine();
 const spec = FieldSpec.parse({ name: 'number', type: 'text', class: 'comb_field', page: 0, region: [0, 0, 1, 1], options: { pattern: '^[0-9]{6}$' } });
 const type = getFieldType('text');
@@ -116,12 +122,14 @@ for (let s = 0; s < stripCount; s++) {
     if (!cellsOk) continue;
     if (reads[i].digit === String(d)) perDigit[d].reader++;
     cellConfidences.push({ confidence: reads[i].confidence, right: reads[i].digit === String(d) });
+    if (readerOnly) continue;
     const img = cellImage(clean, cells[i]);
     const r = img ? await engine.read(img, { mode: 'char', allowed: '0123456789' }) : null;
     if (r && r.text.replace(/\s+/g, '').slice(0, 1) === String(d)) perDigit[d].tesseract++;
   }
 
   // 2. fields, as extract reads them
+  if (readerOnly) continue;
   const located: LocatedField = {
     field: spec,
     parts: [{ key: spec.name, box: strip.box, source: 'detection', detectionScore: 0.9, expected: null, region: null, reasons: [] }],
@@ -169,13 +177,14 @@ await engine.close();
 const pct = (a: number, b: number) => (b ? ((100 * a) / b).toFixed(2) : '-');
 const total = perDigit.reduce((s, d) => s + d.n, 0);
 const lines: string[] = [];
+lines.push(`digit model ${args.model}${readerOnly ? ' (reader only: no Tesseract, no fields)' : ''}`);
 lines.push(`digit-combs: ${stripCount} strips x ${CELLS} cells = ${total} test-split digits (${args.half}), seed ${seed}, degrade ${degrade}; cut failures ${cutFailures}`);
 lines.push('digit  n    reader %  tesseract %');
 for (let d = 0; d <= 9; d++) lines.push(`${d}      ${String(perDigit[d].n).padEnd(4)} ${pct(perDigit[d].reader, perDigit[d].n).padStart(8)}  ${pct(perDigit[d].tesseract, perDigit[d].n).padStart(10)}`);
 const sum = (k: 'reader' | 'tesseract') => perDigit.reduce((s, d) => s + d[k], 0);
 lines.push(`all    ${String(total).padEnd(4)} ${pct(sum('reader'), total).padStart(8)}  ${pct(sum('tesseract'), total).padStart(10)}`);
 lines.push(`digit reader: ${(readerMs / Math.max(1, readerCells)).toFixed(3)} ms per cell (batches of ${CELLS}, one core, preprocessing included)`);
-for (const which of ['ocr', 'both'] as const) {
+if (!readerOnly) for (const which of ['ocr', 'both'] as const) {
   const f = fields[which];
   lines.push(
     `fields ${which === 'ocr' ? 'tesseract alone      ' : 'tesseract + digits   '}: exact ${pct(f.exact, stripCount)} %, accepted ${pct(f.accepted, stripCount)} %, wrong among accepted ${pct(f.wrongAccepted, f.accepted)} % (${f.wrongAccepted}/${f.accepted})` +

@@ -102,7 +102,8 @@ export function registerSamplesCommand(program: Command): void {
     .option('--fill <mode>', 'typed | handwriting | mixed (every other page typed)', 'mixed')
     .option('--degrade <level>', 'scan simulation: none | light | heavy', 'light')
     .option('--upside-down <rate>', 'share of pages fed upside down when degrading', '0')
-    .action(async (form: string, flags: { out: string; count: string; seed: string; page: string; fill: string; degrade: string; upsideDown: string }) => {
+    .option('--real-digits', 'on handwriting pages, write digits in comb boxes and digit-only fields as real handwriting (MNIST test split; needs the dev dependency mnist)')
+    .action(async (form: string, flags: { out: string; count: string; seed: string; page: string; fill: string; degrade: string; upsideDown: string; realDigits?: boolean }) => {
       const rate = Number(flags.upsideDown);
       if (!(rate >= 0 && rate <= 1)) throw configError(undefined, `--upside-down must be a share from 0 to 1; got "${flags.upsideDown}"`);
       // Loaded on use: the PDF library is large, and every other command starts without it.
@@ -117,6 +118,7 @@ export function registerSamplesCommand(program: Command): void {
           fill: oneOf('fill', flags.fill, ['typed', 'handwriting', 'mixed'] as const),
           degrade: oneOf<DegradeLevel>('degrade', flags.degrade, ['none', 'light', 'heavy']),
           upsideDownRate: rate,
+          realDigits: flags.realDigits,
         },
         progress(flags.count),
       );

@@ -94,7 +94,9 @@ export async function readLocatedField(
     if (reading !== read.reading) details.droppedLabel = true;
     if (ctx.digitReader && isDigitComb(field.class === 'comb_field', hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
       // The scanned page, not the dropout one: cells are cut at the printed separators.
-      const digits = await readDigitComb(cropField(ctx.page, box, padding), ctx.digitReader);
+      // A comb's maximum length is its cell count (schema from-pdf drafts it from the widget: ISO 32000-1 §12.7.4.3).
+      const cells = (options as { maxLength?: number } | null)?.maxLength;
+      const digits = await readDigitComb(cropField(ctx.page, box, padding), ctx.digitReader, { cells });
       if (digits) {
         const firstAccepted = read.attempts[0]?.accepted ?? null;
         const checked = crossCheckDigits({ reading, interpretation, firstAccepted }, digits, (r) => type.interpret(r, options, ctx.typeContext));

@@ -43,7 +43,30 @@ class Banks:
         self.not_digits = np.concatenate([others, marks])
 
 
-def batch(banks: Banks, n: int, gen: torch.Generator, rng: np.random.Generator, strength: float = 1.0):
+def elastic(glyphs: torch.Tensor, gen: torch.Generator, p: float, alpha: float = 34.0, sigma: float = 4.0) -> torch.Tensor:
+    """Elastic distortion of 28 x 28 glyphs (a fraction p of them): a random displacement field, uniform -1..1 per
+    pixel, smoothed by a Gaussian of `sigma` px and scaled by `alpha` px. The values 34 and 4 are Simard, Steinkraus
+    and Platt (ICDAR 2003, "Best practices for convolutional neural networks applied to visual document analysis"),
+    section 2, for MNIST; the distortion makes new hands out of the 8 495 training digits (thin loops of 8 and 2,
+    open or squashed bowls)."""
+    b = glyphs.shape[0]
+    if p <= 0:
+        return glyphs
+    r = int(3 * sigma)
+    t = torch.arange(-r, r + 1, dtype=torch.float32)
+    k = torch.exp(-(t * t) / (2 * sigma * sigma))
+    k = k / k.sum()
+    field = torch.rand(b, 2, 28, 28, generator=gen) * 2 - 1
+    field = F.conv2d(F.pad(field, (r, r, 0, 0), mode="reflect"), k.view(1, 1, 1, -1).repeat(2, 1, 1, 1), groups=2)
+    field = F.conv2d(F.pad(field, (0, 0, r, r), mode="reflect"), k.view(1, 1, -1, 1).repeat(2, 1, 1, 1), groups=2)
+    field = field * alpha * (torch.rand(b, generator=gen) < p).float()[:, None, None, None]
+    ys, xs = torch.meshgrid(torch.arange(28, dtype=torch.float32), torch.arange(28, dtype=torch.float32), indexing="ij")
+    gx = (xs[None] + field[:, 0] + 0.5) / 14 - 1  # align_corners=False pixel centres
+    gy = (ys[None] + field[:, 1] + 0.5) / 14 - 1
+    return F.grid_sample(glyphs, torch.stack([gx, gy], 3), mode="bilinear", padding_mode="zeros", align_corners=False)
+
+
+def batch(banks: Banks, n: int, gen: torch.Generator, rng: np.random.Generator, strength: float = 1.0, elastic_p: float = 0.0):
     """A training batch: 76 % handwritten digits, 6 % font digits, 8 % empty cells, 10 % not-a-digit."""
     kind = rng.choice(4, size=n, p=[0.76, 0.06, 0.08, 0.10])
     glyphs = np.zeros((n, 28, 28), np.uint8)
@@ -59,7 +82,7 @@ def batch(banks: Banks, n: int, gen: torch.Generator, rng: np.random.Generator, 
     glyphs[i] = banks.not_digits[rng.integers(0, len(banks.not_digits), len(i))]
     labels[i] = NOT_DIGIT
     neighbours = banks.train_x[rng.integers(0, len(banks.train_y), n)]
-    g = torch.from_numpy(glyphs).float()[:, None] / 255
+    g = elastic(torch.from_numpy(glyphs).float()[:, None] / 255, gen, elastic_p, 34.0 * strength)
     nb = torch.from_numpy(neighbours).float()[:, None] / 255
     kinds = torch.from_numpy((kind == 2).astype(np.int64))
     x = render_cells(g, kinds, gen, nb, strength)
@@ -107,6 +130,7 @@ def main(argv: list[str]) -> None:
     ap.add_argument("--lr", type=float, default=3e-3, help="peak learning rate (one-cycle)")
     ap.add_argument("--init", help="start from this model.pt (a second, gentler schedule)")
     ap.add_argument("--strength", type=float, help="fixed augmentation strength 0..1 (default: ramp 0.5 -> 1 over the first quarter)")
+    ap.add_argument("--elastic", type=float, default=0.0, help="fraction of glyphs elastically distorted (0 = the first recipe)")
     args = ap.parse_args(argv)
     torch.set_num_threads(args.threads)
     torch.manual_seed(args.seed)
@@ -127,7 +151,7 @@ def main(argv: list[str]) -> None:
         for _ in range(args.steps):
             # Augmentation ramps up over the first quarter (clean shapes first, then form-cell clutter).
             strength = args.strength if args.strength is not None else min(1.0, 0.5 + 2 * epoch / args.epochs)
-            x, y = batch(banks, args.batch, gen, rng, strength)
+            x, y = batch(banks, args.batch, gen, rng, strength, args.elastic)
             loss = F.cross_entropy(net(x), y, label_smoothing=0.05)
             opt.zero_grad()
             loss.backward()
@@ -138,6 +162,8 @@ def main(argv: list[str]) -> None:
         if (epoch + 1) % 4 == 0 or epoch + 1 == args.epochs:
             ev = evaluate(net, banks, 1234, 1.0)
             line += f" test-in-cells {ev['accuracy']:.4f} min-digit {min(ev['per_digit'].values()):.4f}"
+            # A checkpoint at each evaluation so a run cut short on a shared machine still leaves a model.
+            torch.save(net.state_dict(), os.path.join(args.out, f"model-e{epoch + 1}.pt"))
         print(line, flush=True)
         log.write(line + "\n")
         log.flush()
@@ -153,6 +179,7 @@ def main(argv: list[str]) -> None:
         "lr": args.lr,
         "init": args.init,
         "strength": args.strength,
+        "elastic": args.elastic,
     }
     with open(os.path.join(args.out, "eval.json"), "w") as fh:
         json.dump(result, fh, indent=2)

@@ -21,6 +21,7 @@ import { svgDocument } from '../../image/svg.js';
 import type { PageTruth, TruthField } from '../truth.js';
 import { handwritingSvg, signaturesSvg, type CombCellDrawer } from './handwriting.js';
 import { planFill, type PdfFieldFill } from './plan.js';
+import { realDigitCell } from './real-digits.js';
 import { typedPdf } from './typed.js';
 
 export interface FillPdfOptions {
@@ -36,8 +37,11 @@ export interface FillPdfOptions {
   upsideDownRate: number;
   /** Which pages are typed: all, none, or every other one starting with typed (half and half). */
   fill: 'typed' | 'handwriting' | 'mixed';
-  /** Optional drawer for the characters of comb cells on handwriting pages. */
+  /** Optional drawer for the characters of comb cells (and the digits of digit-only fields) on handwriting pages. */
   drawCombCell?: CombCellDrawer;
+  /** Digits on handwriting pages, in comb cells and digit-only fields, are real handwriting from the MNIST test
+   *  split (real-digits.ts); ignored when drawCombCell is given. */
+  realDigits?: boolean;
 }
 
 export interface FillPdfSummary {
@@ -105,7 +109,7 @@ export async function fillPage(bytes: Uint8Array, draft: PdfSchemaDraft, o: Fill
     // pdf-lib cannot flatten.
     base = draft.blank;
     const p = drawPen(rng.fork('pen'), mode);
-    ink = handwritingSvg(fills, p, rng.fork('ink'), o.drawCombCell);
+    ink = handwritingSvg(fills, p, rng.fork('ink'), o.drawCombCell ?? (o.realDigits ? realDigitCell : undefined));
     pen = mode === 'typed' ? `${p.font}-overlay` : p.font;
   }
   if (base.width !== width || base.height !== height) throw configError(o.form, 'the filled page rendered at another size than the blank');

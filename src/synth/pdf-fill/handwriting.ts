@@ -9,8 +9,9 @@ import { fitFontSize } from '../text-metrics.js';
 import type { PdfFieldFill } from './plan.js';
 
 /**
- * Draws one character into one comb cell, or returns null to let the handwriting font draw it. A later source of
- * handwritten digits (glyph images, stroke models) plugs in here without changing the filler.
+ * Draws one character into one comb cell (or one digit's room of a digit-only field), or returns null to let the
+ * handwriting font draw it. Sources of handwritten digits (glyph images, stroke models) plug in here without
+ * changing the filler (real-digits.ts).
  */
 export type CombCellDrawer = (cell: Box, char: string, rng: Rng, pen: Pen) => string | null;
 
@@ -50,6 +51,28 @@ function combText(box: Box, cells: number, text: string, pen: Pen, rng: Rng, dra
   return out;
 }
 
+/**
+ * Width of one digit's room in a digit-only field, as a share of the box height: handwritten digits are about
+ * 0.55..0.75 as wide as they are tall and people leave a little space between them (common practice; the MNIST
+ * digits fill a 20 x 20 box of their 28 x 28 frame, handwritten-digits.ts scales the frame to the room).
+ */
+const DIGIT_ROOM = 0.7;
+
+/** A field of digits alone (a postal code, an account or ID number) written digit by digit through the cell drawer;
+ *  null when the drawer leaves any digit to the font (then the whole value is written in the font). */
+function digitRow(box: Box, text: string, pen: Pen, rng: Rng, drawCell: CombCellDrawer): string | null {
+  const room = Math.min(box.h * DIGIT_ROOM, (box.w * 0.94) / text.length);
+  let x = box.x + rng.range(0.01, 0.06) * box.w;
+  let out = '';
+  for (const ch of text) {
+    const drawn = drawCell({ x, y: box.y, w: room, h: box.h }, ch, rng, pen);
+    if (!drawn) return null;
+    out += drawn;
+    x += room;
+  }
+  return out;
+}
+
 /** A mark that overflows its box now and then: ticks and crosses drawn on a box up to half again as large. */
 function markSvg(box: Box, mark: Parameters<typeof checkboxMarkSvg>[2], rng: Rng, ink: number, hand: boolean): string {
   const grow = hand && (mark === 'tick' || mark === 'cross') && rng.chance(0.5) ? rng.range(1.15, 1.5) : 1;
@@ -70,7 +93,8 @@ export function handwritingSvg(fills: readonly PdfFieldFill[], pen: Pen, rng: Rn
     else if (f.value === true && (f.src.kind === 'signature' || f.src.field.type === 'signature')) body += signatureSvg(box, r, pen.ink);
     else if (f.text !== null) {
       const cells = f.src.kind === 'comb' ? f.src.widgets[0].maxLength : undefined;
-      body += cells ? combText(box, cells, f.text, pen, r, drawCell) : writtenInBox(box, f.text, pen, r);
+      const digits = !cells && drawCell && /^[0-9]+$/.test(f.text) ? digitRow(box, f.text, pen, r, drawCell) : null;
+      body += cells ? combText(box, cells, f.text, pen, r, drawCell) : (digits ?? writtenInBox(box, f.text, pen, r));
     }
   }
   return body;
