@@ -1,4 +1,4 @@
-import { fitIsotonic, stepIndex, type IsotonicMap } from './calibration.js';
+import { fitIsotonic, overallAccuracy, smoothIsotonic, stepIndex, type IsotonicMap } from './calibration.js';
 import { groupBy } from './score-groups.js';
 
 /** One field reading seen in calibration data. */
@@ -44,10 +44,14 @@ export interface ProposalOptions {
   targetError: number;
   /** Fewest samples for a field (then a type) to get a map of its own; fewer pool upward. */
   minSamples: number;
+  /** Each level shrunk toward the map's own overall accuracy by a Beta prior worth this many samples
+   *  (smoothIsotonic); default 0, the observed accuracies as they are. */
+  priorStrength?: number;
 }
 
-function fit(samples: readonly CalibrationSample[]): IsotonicMap {
-  return fitIsotonic(samples.map((s) => ({ x: s.confidence, y: s.correct ? 1 : 0 })));
+function fitSmoothed(samples: readonly CalibrationSample[], priorStrength: number): IsotonicMap {
+  const map = fitIsotonic(samples.map((s) => ({ x: s.confidence, y: s.correct ? 1 : 0 })));
+  return smoothIsotonic(map, overallAccuracy(map), priorStrength);
 }
 
 /**
@@ -58,7 +62,9 @@ function fit(samples: readonly CalibrationSample[]): IsotonicMap {
 export function fitMaps(
   samples: readonly CalibrationSample[],
   minSamples: number,
+  priorStrength = 0,
 ): Map<string, { scope: FitScope; map: IsotonicMap; type: string }> {
+  const fit = (of: readonly CalibrationSample[]) => fitSmoothed(of, priorStrength);
   const byField = groupBy(samples, (s) => s.field);
   const byType = groupBy(samples, (s) => s.type);
   const all = samples.length > 0 ? fit(samples) : null;
@@ -91,13 +97,13 @@ export function fitMaps(
  * bound is a prefix of that order (exchange argument: swapping an accepted atom for a rejected one of higher p
  * lowers the error). Within a field, higher levels have higher p, and ties in p go to the level with the higher
  * confidence, so a field's accepted atoms are its top levels: a threshold, set at the lower end of the lowest
- * accepted level (Atom.from). With a map of the field's own, expected errors equal observed errors on the
+ * accepted level (Atom.from). With a map of the field's own and no prior (priorStrength 0), expected errors equal observed errors on the
  * calibration data (each level's value is its observed accuracy).
  */
 export function proposeThresholds(samples: readonly CalibrationSample[], options: ProposalOptions): ThresholdProposal {
   const { targetError, minSamples } = options;
   if (!(targetError >= 0 && targetError < 1)) throw new RangeError(`target error must lie in [0, 1), got ${targetError}`);
-  const maps = fitMaps(samples, minSamples);
+  const maps = fitMaps(samples, minSamples, options.priorStrength ?? 0);
 
   interface Atom {
     field: string;

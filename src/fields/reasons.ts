@@ -87,6 +87,11 @@ export const REASONS = {
     meaning: 'Digits read inside a word were taken as the letters they resemble (0 as O, 1 as l, 5 as S).',
     check: 'The spelling against the crop.',
   },
+  repaired_words: {
+    effect: 'confidence',
+    meaning: 'A word that is not English became one by letters OCR confuses (rn read as m, a g whose tail the field\'s edge cut read as a or q).',
+    check: 'The spelling against the crop.',
+  },
   ambiguous_digit_readers: {
     effect: 'review',
     meaning: 'Tesseract read a digit comb confidently, and the handwritten-digit reader read it as other digits.',

@@ -4,6 +4,7 @@ import type { ReasonCode } from './reasons.js';
 import { emptyInterpretation } from './interpretation.js';
 import { ocrText } from './ocr-text.js';
 import { repairPenalty, repairWordLetters } from './digit-repair.js';
+import { repairConfusedWords } from './word-repair.js';
 import { applyShape, SHAPE_DIGIT, shapeCharacters } from './id-shape.js';
 
 const options = z
@@ -70,12 +71,16 @@ export const textField: FieldType<TextOptions> = {
   interpret(reading, o) {
     const read = ocrText(reading, 'text');
     // A pattern or shape describes a code, where digits among letters are meant; free text gets its stray digits
-    // repaired.
+    // repaired, then its words whose letters OCR confused (word-repair.ts).
     const code = o.pattern !== undefined || o.shape !== undefined;
-    const repaired = code ? { text: read, repairs: 0 } : repairWordLetters(read);
-    const r = check(applyCase(repaired.text, o.case), o);
-    if (repaired.repairs === 0 || r.outcome === 'empty') return r;
-    return { ...r, confidence: r.confidence * repairPenalty(repaired.repairs), reasons: [...r.reasons, 'repaired_letters'] };
+    const letters = code ? { text: read, repairs: 0 } : repairWordLetters(read);
+    const words = code ? { text: letters.text, repairs: 0 } : repairConfusedWords(letters.text);
+    const r = check(applyCase(words.text, o.case), o);
+    if (letters.repairs + words.repairs === 0 || r.outcome === 'empty') return r;
+    const reasons: ReasonCode[] = [...r.reasons];
+    if (letters.repairs > 0) reasons.push('repaired_letters');
+    if (words.repairs > 0) reasons.push('repaired_words');
+    return { ...r, confidence: r.confidence * repairPenalty(letters.repairs + words.repairs), reasons };
   },
   acceptedInput(o) {
     const limits = [

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { applyIsotonic, fitIsotonic, poolAdjacentViolators } from '../../src/eval/calibration.js';
+import { applyIsotonic, fitIsotonic, overallAccuracy, poolAdjacentViolators, smoothIsotonic } from '../../src/eval/calibration.js';
 import { evaluateOnHoldout } from '../../src/eval/calibration-holdout.js';
 import { evaluateThresholds, proposeThresholds, type CalibrationSample } from '../../src/eval/calibration-thresholds.js';
 
@@ -145,5 +145,38 @@ describe('fit on one half, measure on the other', () => {
     // Through a's map: 0.65 lies between levels and takes the lower one, 0.5 (bin 8, gap 0.5, weight 1/4);
     // the other three map to 1 (bin 15: accuracy 2/3, gap 1/3, weight 3/4). ECE = 0.125 + 0.25 = 0.375.
     expect(h.eceCalibrated).toBeCloseTo(0.375, 12);
+  });
+});
+
+describe('smoothIsotonic (a Beta prior on each level)', () => {
+  it("gives Laplace's rule of succession with prior 1/2 and strength 2", () => {
+    // Laplace's rule of succession: after k successes in n trials, (k + 1) / (n + 2) (Laplace 1814, Essai
+    // philosophique sur les probabilites; the formula as textbooks state it, from memory): 10 of 10 -> 11/12.
+    const map = fitIsotonic(Array.from({ length: 10 }, (_, i) => ({ x: 0.9 + i / 100, y: 1 })));
+    const s = smoothIsotonic(map, 0.5, 2);
+    expect(s.steps).toHaveLength(1);
+    expect(applyIsotonic(s, 0.95)).toBeCloseTo(11 / 12, 12);
+  });
+
+  it('keeps no level at 1 and restores the order a small top level loses', () => {
+    // Levels by hand: 2 of 4 right at 0.1, 299 of 300 at 0.5, 3 of 3 at 0.9; PAV keeps the three apart.
+    const pts = [
+      ...[1, 1, 0, 0].map((y) => ({ x: 0.1, y })),
+      ...Array.from({ length: 300 }, (_, i) => ({ x: 0.5, y: i === 0 ? 0 : 1 })),
+      ...[1, 1, 1].map((y) => ({ x: 0.9, y })),
+    ];
+    const map = fitIsotonic(pts);
+    expect(map.steps.map((s) => s.value)).toEqual([0.5, 299 / 300, 1]);
+    const prior = overallAccuracy(map);
+    expect(prior).toBeCloseTo(304 / 307, 12);
+    const s = smoothIsotonic(map, prior, 4);
+    // Shrunk: (299 + 4p) / 304 and (3 + 4p) / 7; the second falls under the first, so PAV pools them with weights
+    // 304 and 7: (299 + 3 + 8p) / 311.
+    expect(s.steps).toHaveLength(2);
+    expect(s.steps[0].value).toBeCloseTo((2 + 4 * prior) / 8, 12);
+    expect(s.steps[1].value).toBeCloseTo((302 + 8 * prior) / 311, 12);
+    expect(s.steps[1].value).toBeLessThan(1);
+    expect(s.steps[1]).toMatchObject({ from: 0.5, to: 0.9, weight: 303 });
+    expect(smoothIsotonic(map, prior, 0)).toBe(map);
   });
 });

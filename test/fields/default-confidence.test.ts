@@ -21,6 +21,14 @@ describe('shipped confidence maps per type and script', () => {
     expect(DefaultConfidence.safeParse(SHIPPED_CONFIDENCE).success).toBe(true);
   });
 
+  it('no shipped level claims accuracy 1: each was fitted on a few hundred fields at most', () => {
+    // Levels are shrunk by a Beta prior (src/eval/calibration.ts smoothIsotonic): k of n right with no error seen
+    // still states less than 1 (Laplace's rule of succession is the case prior 1/2, strength 2).
+    for (const [key, m] of Object.entries(SHIPPED_CONFIDENCE.maps)) {
+      for (const [, level] of m.points) expect(level, key).toBeLessThan(1);
+    }
+  });
+
   it('takes the type and script map, else the script pool, else none', () => {
     const printedDate = chooseCalibration({ type: 'date' }, 'printed', undefined, table);
     expect(printedDate.from).toBe('shipped');
