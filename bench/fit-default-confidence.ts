@@ -95,7 +95,8 @@ async function collect(dir: string, source: Sample['source']): Promise<Sample[]>
       for (const f of files) if (f.endsWith('.png') && !f.endsWith('.blank.png')) pageFiles.set(f.replace(/\.png$/, ''), path.join(dir, 'samples', sub, f));
     }
   }
-  let page: { doc: string; image: GrayImage } | null = null;
+  // The assertion keeps the declared type: TypeScript otherwise narrows the null initialiser through the loop and rejects page.doc.
+  let page = null as { doc: string; image: GrayImage } | null;
   for (const i of items) {
     const r = inputs.results.get(i.document)?.fields.find((f) => f.name === i.field);
     const t = inputs.truth.get(i.document)?.fields.find((f) => f.name === i.field);

@@ -2,11 +2,12 @@ import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { textField } from '../../src/fields/text.js';
 import { grayFromImage } from '../../src/image/raster.js';
-import { closeSharedOcrEngine } from '../../src/read/ocr-engine.js';
+import { OcrEngine } from '../../src/read/ocr-engine.js';
 import { readTextField } from '../../src/read/read-text.js';
 import { REPO_ROOT } from './w4-layout.js';
 
-afterAll(closeSharedOcrEngine);
+const engine = new OcrEngine();
+afterAll(() => engine.close());
 
 /** Where the strip was cut on its 1700 x 2200 page (fixture README). */
 const ORIGIN = { x: 110, y: 320 };
@@ -23,7 +24,7 @@ describe('typed words with letters OCR confuses (FEC Form 3X Schedule A, typed f
     ];
     for (const f of fields) {
       const [x, y, w, h] = f.box;
-      const read = await readTextField(page, { x: x - ORIGIN.x, y: y - ORIGIN.y, w, h }, { padding: 4, mode: 'line' });
+      const read = await readTextField(page, { x: x - ORIGIN.x, y: y - ORIGIN.y, w, h }, { engine, padding: 4, mode: 'line' });
       const got = textField.interpret(read.reading, textField.options.parse({}), { today: new Date('2026-12-02') });
       // The truth is what the filler typed (the values are invented); a person reading the crop reads it too.
       expect(got.value, f.name).toBe(f.truth);
