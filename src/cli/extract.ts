@@ -126,7 +126,7 @@ export function readingOptions(cmd: Command): Command {
 export function registerExtractCommand(program: Command): void {
   readingOptions(program.command('extract').description('Read scanned forms into checked JSON records, a review queue and a summary'))
     .option('--resume', 'keep results of documents unchanged since the last run')
-    .option('--workers <n>', `inputs read at once, each by a worker thread with its own detector and OCR worker (default: one per core as memory allows, ${defaultWorkers()} here)`)
+    .option('--workers <n>', `worker threads, each with its own detector and OCR worker and reading two inputs at once (one in OCR while the other is levelled and registered) (default: one per core as memory allows, ${defaultWorkers()} here)`)
     .option('--threads <n>', 'onnxruntime intra-op threads of each detector session (default: the cores shared out among the workers)')
     .option('--quiet', 'print only the summary')
     .option('--json-log', 'progress as one JSON object per event on stderr (never field values)')
