@@ -147,17 +147,22 @@ export function addDraftSubcommand(schemaCommand: Command): void {
       }
       if (!flags.fromImage && (await draftPdfWidgets(input, flags))) return;
       const detector = await loadDetector(flags.model);
-      const doc = await decodeDocument(input);
       const pages: GrayImage[] = [];
       const changed: boolean[] = [];
       const detections: Detection[][] = [];
-      for (const page of doc.pages) {
-        // A blank rendered from a PDF is upright already; dense capitals can fool the orientation check.
-        const n = flags.normalize ? normalizePage(page) : { image: page, transform: { a: 1, b: 0, c: 0, d: 0, e: 1, f: 0 } };
-        pages.push(n.image);
-        const t = n.transform;
-        changed.push(!(t.a === 1 && t.b === 0 && t.c === 0 && t.d === 0 && t.e === 1 && t.f === 0));
-        detections.push(await detector.detect(n.image, minScore === undefined ? undefined : { scoreThreshold: minScore }));
+      try {
+        const doc = await decodeDocument(input);
+        for (const page of doc.pages) {
+          // A blank rendered from a PDF is upright already; dense capitals can fool the orientation check.
+          const n = flags.normalize ? normalizePage(page) : { image: page, transform: { a: 1, b: 0, c: 0, d: 0, e: 1, f: 0 } };
+          pages.push(n.image);
+          const t = n.transform;
+          changed.push(!(t.a === 1 && t.b === 0 && t.c === 0 && t.d === 0 && t.e === 1 && t.f === 0));
+          detections.push(await detector.detect(n.image, minScore === undefined ? undefined : { scoreThreshold: minScore }));
+        }
+      } finally {
+        // The detector is this command's, as the OCR engine below is: closed when its part is done.
+        await detector.close();
       }
       const refs = await referenceImages(input, flags.out, pages, changed);
       const formName = flags.name ?? path.basename(input).replace(/\.[^.]+$/, '');
