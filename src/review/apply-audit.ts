@@ -2,7 +2,7 @@ import type { FieldUpdate, RowRef } from './apply-plan.js';
 import type { AuditEntry } from './audit.js';
 import type { StoredResult } from './result-store.js';
 import type { DocumentResult } from '../result/document.js';
-import { LAYOUT_ROW_FIELD } from './layout-question.js';
+import { LAYOUT_ROW_FIELD, layoutAnswerStatus, layoutAnswerValue } from './layout-question.js';
 
 export function updatesByDocument(updates: readonly FieldUpdate[]): Map<string, FieldUpdate[]> {
   const out = new Map<string, FieldUpdate[]>();
@@ -64,7 +64,7 @@ export function recoveredEntries(
 function recoveredLayoutEntry(ref: RowRef, doc: DocumentResult | undefined, queue: string): AuditEntry | null {
   const review = doc?.layout?.review;
   if (!doc || !review) return null;
-  const status = review.decision === 'confirmed' ? 'confirmed' : 'corrected';
+  const status = layoutAnswerStatus(review);
   return {
     at: review.at,
     reviewer: review.reviewer,
@@ -74,7 +74,7 @@ function recoveredLayoutEntry(ref: RowRef, doc: DocumentResult | undefined, queu
     rowId: ref.rowId,
     previousValue: doc.schema.name,
     previousStatus: 'review',
-    value: review.decision === 'not_a_form' ? null : (review.schema ?? doc.schema.name),
+    value: layoutAnswerValue(doc, review),
     status,
     ...(review.note !== undefined ? { note: review.note } : {}),
     queue,

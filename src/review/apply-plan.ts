@@ -4,7 +4,7 @@ import { isEmptyCorrection, readConfirm, typedCellProblem } from './answers.js';
 import type { AuditEntry } from './audit.js';
 import type { FieldTyping } from './field-options.js';
 import { isPending } from './pending.js';
-import { LAYOUT_ROW_FIELD, parseLayoutAnswer } from './layout-question.js';
+import { LAYOUT_ROW_FIELD, layoutAnswerStatus, layoutAnswerValue, parseLayoutAnswer } from './layout-question.js';
 import type { QueueEntry } from './queue-read.js';
 import { resultFingerprint } from './result-fingerprint.js';
 import { assignRowIds } from './row-id.js';
@@ -202,8 +202,6 @@ function decideLayoutAnswer(input: PlanInput, a: Answer, doc: PlanDocument): Dec
   const result = doc.result;
   const docId = result.document.id;
   const held = result.layout?.review;
-  const asValue = (r: { decision: string; schema?: string }) => (r.decision === 'not_a_form' ? null : (r.schema ?? result.schema.name));
-  const asStatus = (r: { decision: string }) => (r.decision === 'confirmed' ? 'confirmed' : 'corrected');
   let value: FieldValue;
   let previousValue: FieldValue;
   let status: FieldResult['status'];
@@ -211,8 +209,8 @@ function decideLayoutAnswer(input: PlanInput, a: Answer, doc: PlanDocument): Dec
   let action: AuditEntry['action'];
   if (a.action.kind === 'revert') {
     if (held === undefined) return { problem: `the layout of document "${docId}" holds no review answer to undo` };
-    previousValue = asValue(held);
-    previousStatus = asStatus(held);
+    previousValue = layoutAnswerValue(result, held);
+    previousStatus = layoutAnswerStatus(held);
     value = result.schema.name;
     status = 'review';
     action = 'reverted';
@@ -220,10 +218,10 @@ function decideLayoutAnswer(input: PlanInput, a: Answer, doc: PlanDocument): Dec
     const answer = parseLayoutAnswer(result, a.action);
     if ('problem' in answer) return { problem: answer.problem };
     if (held !== undefined && held.decision === answer.decision && held.schema === answer.schema && held.note === a.note) return { already: true };
-    previousValue = held ? asValue(held) : result.schema.name;
-    previousStatus = held ? asStatus(held) : 'review';
-    value = asValue(answer);
-    status = asStatus(answer);
+    previousValue = held ? layoutAnswerValue(result, held) : result.schema.name;
+    previousStatus = held ? layoutAnswerStatus(held) : 'review';
+    value = layoutAnswerValue(result, answer);
+    status = layoutAnswerStatus(answer);
     action = status;
   }
   const entry = auditEntry(input, a, { action, document: docId, field: LAYOUT_ROW_FIELD, previousValue, previousStatus, value, status });

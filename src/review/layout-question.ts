@@ -1,4 +1,5 @@
-import type { DocumentResult, LayoutDecision } from '../result/document.js';
+import type { DocumentResult, LayoutDecision, LayoutReview } from '../result/document.js';
+import type { LoadedSchema } from '../schema/load.js';
 
 /**
  * A document whose layout is unknown (no schema fitted its first page) asks a person one question before any of
@@ -35,10 +36,7 @@ export function awaitsRereading(doc: DocumentResult): boolean {
  * The schema an input is to be read with again, and the answer that says so: when its one earlier record was set
  * aside as another form that is among the schemas of this run. A stack of several forms is read as usual.
  */
-export function rereadAs<S extends { schema: { form: { name: string } } }>(
-  earlier: readonly DocumentResult[],
-  schemas: readonly S[],
-): { schema: S; review: NonNullable<NonNullable<DocumentResult['layout']>['review']> } | null {
+export function rereadAs(earlier: readonly DocumentResult[], schemas: readonly LoadedSchema[]): { schema: LoadedSchema; review: LayoutReview } | null {
   if (earlier.length !== 1 || !awaitsRereading(earlier[0])) return null;
   const review = earlier[0].layout!.review!;
   const schema = schemas.find((s) => s.schema.form.name === review.schema);
@@ -67,6 +65,21 @@ export function candidatesCell(doc: DocumentResult): string {
 /** What a reviewer may type in the layout row, for messages and the review page. */
 export function layoutAcceptedInput(doc: DocumentResult): string {
   return `the name of the form this is (${layoutChoices(doc).join(', ')}), or ${NOT_A_FORM_ANSWER} when it is none of them`;
+}
+
+type Answered = { decision: LayoutDecision; schema?: string };
+
+/**
+ * A layout answer as the queue row's value, in the audit log and on the review page: the form the document is
+ * (the one it was read as when confirmed), or null for none of them.
+ */
+export function layoutAnswerValue(doc: DocumentResult, answer: Answered): string | null {
+  return answer.decision === 'not_a_form' ? null : (answer.schema ?? doc.schema.name);
+}
+
+/** A layout answer as a field status: a confirmation, or a correction (another form, or none). */
+export function layoutAnswerStatus(answer: Answered): 'confirmed' | 'corrected' {
+  return answer.decision === 'confirmed' ? 'confirmed' : 'corrected';
 }
 
 export type LayoutAnswer = { decision: LayoutDecision; schema?: string } | { problem: string };

@@ -61,9 +61,10 @@ export function reviewStatus(results: readonly DocumentResult[]): ReviewStatus {
       layoutQuestions.push(r.document.id);
       continue;
     }
-    const review = r.layout?.review;
-    if (mode === 'none' && review !== undefined && review.decision !== 'confirmed') {
-      setAside.push({ document: r.document.id, decision: review.decision, ...(review.schema !== undefined ? { schema: review.schema } : {}) });
+    if (mode === 'none') {
+      // Only an answer other than a confirmation takes a document out of the queue (layout-question.ts).
+      const { decision, schema } = r.layout!.review!;
+      setAside.push({ document: r.document.id, decision: decision as 'other_form' | 'not_a_form', ...(schema !== undefined ? { schema } : {}) });
       continue;
     }
     const d = zero();

@@ -10,7 +10,7 @@ import { readReviewQueue } from '../queue-read.js';
 import { resultFingerprint } from '../result-fingerprint.js';
 import { readResultsFolder, type StoredResult } from '../result-store.js';
 import { assignRowIds } from '../row-id.js';
-import { LAYOUT_ROW_FIELD, LAYOUT_ROW_TYPE, layoutAcceptedInput } from '../layout-question.js';
+import { LAYOUT_ROW_FIELD, LAYOUT_ROW_TYPE, layoutAcceptedInput, layoutAnswerStatus, layoutAnswerValue } from '../layout-question.js';
 
 /** A reason code as the page shows it: the code, and in plain words what it means and what to check. */
 export interface PageReason {
@@ -140,9 +140,9 @@ function layoutAsField(doc: DocumentResult): FieldResult {
     name: LAYOUT_ROW_FIELD,
     type: LAYOUT_ROW_TYPE,
     page: 0,
-    value: review === undefined ? doc.schema.name : review.decision === 'not_a_form' ? null : (review.schema ?? doc.schema.name),
+    value: review === undefined ? doc.schema.name : layoutAnswerValue(doc, review),
     raw: null,
-    status: review === undefined ? 'review' : review.decision === 'confirmed' ? 'confirmed' : 'corrected',
+    status: review === undefined ? 'review' : layoutAnswerStatus(review),
     confidence: doc.layout?.score ?? 0,
     reasons: ['unknown_layout'],
     box: null,
