@@ -28,6 +28,8 @@ export async function chooseLayout(
   page: GrayImage,
   detections: readonly Detection[],
   references: ReferencePages,
+  /** A person said the page is the form of the one schema given (review/layout-question.ts): it is assigned whatever its fit. */
+  named = false,
 ): Promise<LayoutChoice> {
   if (schemas.length === 0) throw new Error('chooseLayout needs at least one schema');
   if (schemas.length === 1) {
@@ -37,7 +39,7 @@ export async function chooseLayout(
     // (a garden-plot page read with the marina schema had fields "accepted"). The threshold is an image
     // correlation's: a fit by detections alone is judged by the page gate.
     const byImage = alignment.method === 'image' || alignment.method === 'image+detections';
-    const status = byImage && alignment.score < LAYOUT_MIN_SCORE ? 'unknown_layout' : 'assigned';
+    const status = !named && byImage && alignment.score < LAYOUT_MIN_SCORE ? 'unknown_layout' : 'assigned';
     return { schema: schemas[0], alignment, status, score, candidates: [{ schema: schemas[0].schema.form.name, score }] };
   }
   const candidates = schemas.map((s) => ({

@@ -124,9 +124,8 @@ export async function* extractForms(input: string | Buffer, options: ExtractOpti
       const ocrBefore = options.ocr.busyMs;
       const head = await prepare(first, clock);
       const started = performance.now();
-      const chosen = () => chooseLayout(schemas, head.normalized.image, head.detections, references);
       const choose = () =>
-        clock.time('align', async () => (options.layoutFromReview ? { ...(await chosen()), status: 'assigned' as const } : chosen()));
+        clock.time('align', () => chooseLayout(schemas, head.normalized.image, head.detections, references, options.layoutFromReview !== undefined));
       let choice = await choose();
       // Up versus down settled against the blank (src/pipeline/confirm-upright.ts); a first page turned over
       // chooses its layout again.
