@@ -226,6 +226,11 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const inRun = new Set(files.flatMap((f) => [recordedPath(f), f]));
   const claims = new IdClaims(previous.filter((l) => !inRun.has(l.path)));
   const stems = documentIds(files);
+  const ownLines = (file: string) => previous.filter((l) => l.path === recordedPath(file) || l.path === file);
+  // Every input's own id is held, in input order, before any input is read: a stack's derived ids (scan.p2) then never
+  // take the name of a file beside it (scan.p2.png), whichever finishes first, so ids do not depend on timing.
+  const stemOf = new Map(files.map((file) => [file, previousStem(ownLines(file)) ?? (stems.get(file) as string)]));
+  for (const file of files) claims.claim(stemOf.get(file)!, recordedPath(file));
   const startedAt = new Date();
   const started = performance.now();
   const workers = Math.max(1, Math.min(options.workers ?? 1, files.length || 1));
@@ -253,8 +258,8 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
     for (const [index, file] of files.entries()) {
       if (options.signal?.aborted || fatal !== null) break;
       const recorded = recordedPath(file);
-      const own = previous.filter((l) => l.path === recorded || l.path === file);
-      const stem = previousStem(own) ?? (stems.get(file) as string);
+      const own = ownLines(file);
+      const stem = stemOf.get(file)!;
       const reused = options.resume ? await reusable(options.outDir, own, file, options) : null;
       if (reused) {
         for (const r of reused) claims.claim(r.document.id, recorded);
