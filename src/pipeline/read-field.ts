@@ -89,13 +89,16 @@ export async function readLocatedField(
       },
     });
     let reading = withoutPrintedLabel(read.reading, field.label);
+    // Tesseract's own read: its word confidences are evidence of print or handwriting, whichever reader's value is kept.
+    const ocrReading = reading;
     let interpretation = type.interpret(reading, options, ctx.typeContext);
     const details: Record<string, unknown> = { attempts: read.attempts };
     if (reading !== read.reading) details.droppedLabel = true;
     if (ctx.digitReader && isDigitComb(field.class === 'comb_field', hints.allowed, (options as { pattern?: unknown } | null)?.pattern)) {
       // The scanned page, not the dropout one: cells are cut at the printed separators.
-      // A comb's maximum length is its cell count (schema from-pdf drafts it from the widget: ISO 32000-1 §12.7.4.3).
-      const cells = (options as { maxLength?: number } | null)?.maxLength;
+      // The comb's box count: the schema's `cells` (schema from-pdf drafts it from the widget's maximum length, which
+      // a comb divides its box into evenly: ISO 32000-1 §12.7.4.3), else a text comb's maximum length.
+      const cells = field.cells ?? (options as { maxLength?: number } | null)?.maxLength;
       const digits = await readDigitComb(cropField(ctx.page, box, padding), ctx.digitReader, { cells });
       if (digits) {
         const firstAccepted = read.attempts[0]?.accepted ?? null;
@@ -111,7 +114,7 @@ export async function readLocatedField(
     if (interpretation.outcome !== 'empty') {
       const measures = scriptMeasures(cropField(ctx.page, box, 0).image);
       if (measures) {
-        scriptEntry = scriptInputs(measures, reading);
+        scriptEntry = scriptInputs(measures, ocrReading);
         details.script = { ...scriptEntry, wordConfidence: scriptEntry.wordConfidence === null ? null : round3(scriptEntry.wordConfidence), components: measures.components };
       }
     }

@@ -42,6 +42,12 @@ const FieldCommon = {
   padding: Padding.optional(),
   required: z.boolean().default(false),
   ocr: OcrHints.optional(),
+  cells: z
+    .number()
+    .int()
+    .min(1)
+    .optional()
+    .describe('A comb\'s number of boxes, one character each: the boxes are cut evenly where no printed separator is found'),
   reviewThreshold: z.number().min(0).max(1).optional().describe('Confidence under which the field goes to review'),
   confidenceMap: ConfidenceMap.optional(),
 };

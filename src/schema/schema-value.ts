@@ -9,6 +9,8 @@ export interface SchemaFieldValue {
   required?: boolean;
   options?: Record<string, unknown>;
   ocr?: { mode: 'block' };
+  /** A comb's number of boxes. */
+  cells?: number;
   reviewThreshold?: number;
   confidenceMap?: [number, number][];
 }

@@ -60,9 +60,11 @@ describe('schema from-pdf: widget counts against the reference set', () => {
     expect(kind('signature')).toBe(e.signature);
     expect(kind('dropdown')).toBe(e.choice);
     expect(d.skipped.pushButton).toBe(e.push_button);
-    // Comb cell counts are the fields' maximum lengths, in the order the reference lists them.
+    // Comb cell counts are the widgets' maximum lengths (a comb divides its box evenly into them: ISO 32000-1
+    // §12.7.4.3), recorded as the field's `cells` whatever its type; a free-text comb's longest value is the same.
     const combs = d.sources.filter((s) => s.kind === 'comb');
-    expect(combs.map((s) => s.field.options?.maxLength).sort()).toEqual([...f.comb_max_lengths].sort());
+    expect(combs.map((s) => s.field.cells).sort()).toEqual([...f.comb_max_lengths].sort());
+    for (const s of combs) if (s.field.type === 'text') expect(s.field.options?.maxLength).toBe(s.field.cells);
     expect(combs.every((s) => s.field.class === 'comb_field')).toBe(true);
   });
 

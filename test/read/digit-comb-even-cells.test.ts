@@ -61,6 +61,25 @@ describe('digit combs without printed separators (a real form)', () => {
     }
   });
 
+  it('reads a date of birth written on a bare baseline once the schema gives each comb its cell count (VA Form 21-0966)', async () => {
+    // Month, day and year combs of item 4, drawn as one baseline with no cell marks; `schema from-pdf` drafts them as
+    // number fields with `cells` 2, 2 and 4, the widgets' maximum lengths. MNIST test-split digits (their labels are
+    // the truth), source note in test/fixtures/real-forms/README.md.
+    const dob = await grayFromImage(path.resolve('test/fixtures/real-forms/va-21-0966-dob-handwritten.png'));
+    const combs = [
+      { box: { x: 21, y: 17, w: 85, h: 43 }, cells: 2, digits: '11' },
+      { box: { x: 154, y: 17, w: 85, h: 44 }, cells: 2, digits: '23' },
+      { box: { x: 286, y: 18, w: 185, h: 43 }, cells: 4, digits: '1956' },
+    ];
+    for (const c of combs) {
+      const bare = await readDigitComb(cropField(dob, c.box, 4), reader);
+      expect(bare === null || bare.cells.length < c.cells).toBe(true);
+      const read = await readDigitComb(cropField(dob, c.box, 4), reader, { cells: c.cells });
+      expect(read!.cells).toHaveLength(c.cells);
+      expect(read!.reading.text).toBe(c.digits);
+    }
+  });
+
   it('cuts n equal cells across the box', () => {
     const cells = evenCells({ x: 10, y: 5, w: 110, h: 40 }, 11);
     expect(cells).toHaveLength(11);

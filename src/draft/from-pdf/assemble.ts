@@ -94,8 +94,13 @@ export function assembleFields(page: PageWidgets, dpi: number, width: number, he
         const kind = guess.type === 'signature' ? 'signature' : first.kind;
         const field: SchemaFieldValue = { ...common, type: guess.type, class: CLASS_OF[kind] };
         const options = { ...(guess.options ?? {}) };
-        // A comb's cell count is its maximum length (ISO 32000-1 §12.7.4.3, Table 228, Comb flag).
-        if (first.kind === 'comb' && guess.type === 'text' && first.maxLength) options.maxLength = first.maxLength;
+        // A comb's cell count is its maximum length (ISO 32000-1 §12.7.4.3, Table 228, Comb flag), whatever the
+        // value's type (a date or ZIP comb too): the reader cuts the box into that many cells. For free text it is
+        // also the longest value.
+        if (first.kind === 'comb' && first.maxLength) {
+          field.cells = first.maxLength;
+          if (guess.type === 'text') options.maxLength = first.maxLength;
+        }
         if (Object.keys(options).length > 0) field.options = options;
         if (first.multiline && guess.type === 'text') field.ocr = { mode: 'block' };
         fields.push({ kind, widgets: g, boxes, field });
