@@ -46,7 +46,7 @@ import { scoreAll } from '../src/eval/score.js';
 import { DEFAULT_BINS, reliability } from '../src/eval/reliability.js';
 import { cropGray, grayFromImage, type GrayImage } from '../src/image/raster.js';
 import { scriptMeasures } from '../src/read/script-measures.js';
-import { readdir } from 'node:fs/promises';
+import { readFile, readdir } from 'node:fs/promises';
 
 /** Fewest measured entries on a form for its median to count as context (common practice: a median of three). */
 const MIN_FORM_ENTRIES = 3;
@@ -376,4 +376,10 @@ table.note =
   `; a type's own map from ${minSamples} samples, else its script group's pooled map ("<group>/*"), each level shrunk ` +
   `toward its map's overall accuracy by a Beta prior worth ${JSON.stringify(priorStrengths)} fields (src/eval/calibration.ts smoothIsotonic); thresholds for ` +
   `target errors among accepted fields ${JSON.stringify(targets)} (printed entries with the fields that have no script, handwritten apart).`;
-if (args['write-maps']) await writeJsonAtomic(path.join(ROOT, 'src', 'fields', 'default-confidence.json'), table);
+if (args['write-maps']) {
+  // The digit reader's maps are fitted apart (bench/fit-digit-confidence.ts) on comb runs: kept as they are.
+  const file = path.join(ROOT, 'src', 'fields', 'default-confidence.json');
+  const current = JSON.parse(await readFile(file, 'utf8')) as DefaultConfidence;
+  for (const [key, entry] of Object.entries(current.maps)) if (key.endsWith('/digit_cells')) table.maps[key] = entry;
+  await writeJsonAtomic(file, table);
+}

@@ -13,9 +13,15 @@ import shipped from './default-confidence.json' with { type: 'json' };
  *
  * Keys are "<group>/<type>", group being the entry's script (printed, handwritten), or "none" for fields with no
  * script decision (marks, signatures, blank areas, too little ink to measure); "<group>/*" pools a group's types
- * for a type with too few samples of its own.
+ * for a type with too few samples of its own. "<group>/digit_cells" is for a comb whose value the digit reader gave
+ * (read cell by cell: src/pipeline/digit-cross-check.ts), whatever the field's type: its reading factor is the digit
+ * reader's per-cell probabilities, which mean something else than Tesseract's word confidences (fitted apart by
+ * bench/fit-digit-confidence.ts).
  */
 export type ScriptGroup = Script | 'none';
+
+/** Which reader's value a field holds, where it has a map of its own: the digit reader's, read cell by cell. */
+export type CalibrationReader = 'digit_cells';
 
 const Entry = z
   .object({
@@ -67,7 +73,7 @@ export interface FieldCalibrationChoice {
 
 /**
  * The map and threshold a field is scored with. A field's own map (and threshold, else the schema's default, else
- * DEFAULT_REVIEW_THRESHOLD) comes first; otherwise the shipped map of its type and script with the shipped
+ * DEFAULT_REVIEW_THRESHOLD) comes first; otherwise the shipped map of its reader (when it has one), else of its type, and script, with the shipped
  * threshold, unless the schema sets a threshold (on the field, or in its defaults), which then applies to the
  * mapped confidence.
  */
@@ -76,10 +82,11 @@ export function chooseCalibration(
   group: ScriptGroup,
   schemaThreshold: number | undefined,
   table: DefaultConfidence = SHIPPED_CONFIDENCE,
+  reader?: CalibrationReader,
 ): FieldCalibrationChoice {
   const set = field.reviewThreshold ?? schemaThreshold;
   if (field.confidenceMap) return { map: field.confidenceMap, threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'field' };
-  const entry = table.maps[`${group}/${field.type}`] ?? table.maps[`${group}/*`];
+  const entry = (reader ? table.maps[`${group}/${reader}`] : undefined) ?? table.maps[`${group}/${field.type}`] ?? table.maps[`${group}/*`];
   if (!entry) return { threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'none' };
   const weights = table.factorWeights?.[group];
   return { map: entry.points, threshold: set ?? entry.threshold, from: 'shipped', ...(weights ? { factorWeights: weights } : {}) };
