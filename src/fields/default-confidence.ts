@@ -73,9 +73,9 @@ export interface FieldCalibrationChoice {
 
 /**
  * The map and threshold a field is scored with. A field's own map (and threshold, else the schema's default, else
- * DEFAULT_REVIEW_THRESHOLD) comes first; otherwise the shipped map of its reader (when it has one), else of its type, and script, with the shipped
- * threshold, unless the schema sets a threshold (on the field, or in its defaults), which then applies to the
- * mapped confidence.
+ * DEFAULT_REVIEW_THRESHOLD) comes first; otherwise the shipped map for its script and reader (the digit reader's,
+ * where the table has one), else for its script and type, else its script's pool, with the shipped threshold,
+ * unless the schema sets a threshold (on the field, or in its defaults), which then applies to the mapped confidence.
  */
 export function chooseCalibration(
   field: { type: string; confidenceMap?: ConfidenceMapPoints; reviewThreshold?: number },
