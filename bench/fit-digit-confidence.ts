@@ -27,6 +27,8 @@ import { schemaCalibration } from '../src/eval/calibration-run.js';
 import { loadScoreInputs } from '../src/eval/score-run.js';
 import { scoreAll } from '../src/eval/score.js';
 import { writeJsonAtomic } from '../src/io/atomic-write.js';
+import { valueFromDigitCells } from '../src/pipeline/digit-cross-check.js';
+import { isWrittenDigitComb } from './digit-comb-truth.js';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const KEY = 'handwritten/digit_cells';
@@ -53,14 +55,13 @@ async function samplesOf(run: string): Promise<Sample[]> {
     const truthDir = path.join(run, 'samples', form, 'truth');
     const inputs = await loadScoreInputs(path.join(run, 'results-digits', form), truthDir);
     const written = new Set<string>();
-    for (const [doc, t] of inputs.truth) for (const f of t.fields) if (f.class === 'comb_field' && f.text !== null && /^[0-9]+$/.test(f.text)) written.add(`${doc}\u0000${f.name}`);
+    for (const [doc, t] of inputs.truth) for (const f of t.fields) if (isWrittenDigitComb(f)) written.add(`${doc}\u0000${f.name}`);
     const scored = new Map(scoreAll({ ...inputs, bins: 10 }).items.map((i) => [`${i.document}\u0000${i.field}`, i]));
     for (const [doc, r] of inputs.results) {
       for (const f of r.fields) {
         const key = `${doc}\u0000${f.name}`;
-        const cells = (f.details as { digitCells?: { kept: string; agree: boolean } } | undefined)?.digitCells;
         const item = scored.get(key);
-        if (!written.has(key) || !item || !cells || f.script !== 'handwritten' || !(cells.kept === 'digits' || cells.agree)) continue;
+        if (!written.has(key) || !item || f.script !== 'handwritten' || !valueFromDigitCells(f.details)) continue;
         const raw = (f.scores as Record<string, number>).weighted ?? (f.scores as Record<string, number>).raw;
         out.push({ field: KEY, type: 'digit_cells', confidence: raw, correct: item.correct, decidable: item.decidable, form });
       }

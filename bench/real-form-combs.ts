@@ -43,6 +43,7 @@ import { OcrEngine } from '../src/read/ocr-engine.js';
 import { loadSchema, resolveSchema, type LoadedSchema } from '../src/schema/load.js';
 import { fillPdfSamples } from '../src/synth/pdf-fill/fill-pdf.js';
 import type { PageTruth } from '../src/synth/truth.js';
+import { isWrittenDigitComb } from './digit-comb-truth.js';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -82,7 +83,7 @@ const DIGITS = '^[0-9]+$';
  *  their content, the filler writes digits on some pages and words on others; only the digit pages are scored). */
 function digitCombs(truths: readonly PageTruth[]): Set<string> {
   const names = new Set<string>();
-  for (const t of truths) for (const f of t.fields) if (f.class === 'comb_field' && f.text !== null && /^[0-9]+$/.test(f.text)) names.add(f.name);
+  for (const t of truths) for (const f of t.fields) if (isWrittenDigitComb(f)) names.add(f.name);
   return names;
 }
 
@@ -156,7 +157,7 @@ try {
         await runBatch({ ocr, inputs: pages, schemas: [schema], detector, outDir: results, digitReader: arm === 'digits' ? reader : undefined });
         const inputs = await loadScoreInputs(results, samples);
         const written = new Set<string>();
-        for (const [doc, t] of inputs.truth) for (const f of t.fields) if (combs.has(f.name) && f.text !== null && /^[0-9]+$/.test(f.text)) written.add(`${doc}\u0000${f.name}`);
+        for (const [doc, t] of inputs.truth) for (const f of t.fields) if (combs.has(f.name) && isWrittenDigitComb(f)) written.add(`${doc}\u0000${f.name}`);
         const tally = row.arms[arm];
         for (const i of scoreAll({ ...inputs, bins: 10 }).items) {
           if (!written.has(`${i.document}\u0000${i.field}`)) continue;

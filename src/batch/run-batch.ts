@@ -226,7 +226,20 @@ export async function runBatch(options: BatchOptions): Promise<BatchReport> {
   const inRun = new Set(files.flatMap((f) => [recordedPath(f), f]));
   const claims = new IdClaims(previous.filter((l) => !inRun.has(l.path)));
   const stems = documentIds(files);
-  const ownLines = (file: string) => previous.filter((l) => l.path === recordedPath(file) || l.path === file);
+  // A previous run's lines by the path they recorded, looked up once per input (not a scan of every line per input,
+  // which a resumed run over a large folder would pay twice per file).
+  const byPath = new Map<string, number[]>();
+  previous.forEach((l, i) => {
+    const at = byPath.get(l.path);
+    if (at) at.push(i);
+    else byPath.set(l.path, [i]);
+  });
+  // In the index's order, as the scan gave them.
+  const ownLines = (file: string) => {
+    const recorded = recordedPath(file);
+    const at = recorded === file ? (byPath.get(file) ?? []) : [...(byPath.get(recorded) ?? []), ...(byPath.get(file) ?? [])].sort((a, b) => a - b);
+    return at.map((i) => previous[i]);
+  };
   // Every input's own id is held, in input order, before any input is read: a stack's derived ids (scan.p2) then never
   // take the name of a file beside it (scan.p2.png), whichever finishes first, so ids do not depend on timing.
   const stemOf = new Map(files.map((file) => [file, previousStem(ownLines(file)) ?? (stems.get(file) as string)]));

@@ -78,15 +78,14 @@ export interface FieldCalibrationChoice {
  * unless the schema sets a threshold (on the field, or in its defaults), which then applies to the mapped confidence.
  */
 export function chooseCalibration(
-  field: { type: string; confidenceMap?: ConfidenceMapPoints; reviewThreshold?: number },
+  field: { type: string; confidenceMap?: ConfidenceMapPoints; reviewThreshold?: number; reader?: CalibrationReader },
   group: ScriptGroup,
   schemaThreshold: number | undefined,
   table: DefaultConfidence = SHIPPED_CONFIDENCE,
-  reader?: CalibrationReader,
 ): FieldCalibrationChoice {
   const set = field.reviewThreshold ?? schemaThreshold;
   if (field.confidenceMap) return { map: field.confidenceMap, threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'field' };
-  const entry = (reader ? table.maps[`${group}/${reader}`] : undefined) ?? table.maps[`${group}/${field.type}`] ?? table.maps[`${group}/*`];
+  const entry = (field.reader ? table.maps[`${group}/${field.reader}`] : undefined) ?? table.maps[`${group}/${field.type}`] ?? table.maps[`${group}/*`];
   if (!entry) return { threshold: set ?? DEFAULT_REVIEW_THRESHOLD, from: 'none' };
   const weights = table.factorWeights?.[group];
   return { map: entry.points, threshold: set ?? entry.threshold, from: 'shipped', ...(weights ? { factorWeights: weights } : {}) };

@@ -97,6 +97,16 @@ export function crossCheckDigits(
   return { reading: ocr.reading, interpretation: t, details: { ...base, agree: false, kept: 'ocr' } };
 }
 
+/**
+ * Whether a field's value is the digit reader's: kept from its cells, or the value both readers gave. Such a value's
+ * reading factor is the digit reader's probabilities, which have a shipped confidence map of their own. `details` is
+ * a read's (or a result field's) details, whose `digitCells` crossCheckDigits wrote.
+ */
+export function valueFromDigitCells(details: Record<string, unknown> | undefined): boolean {
+  const cells = details?.digitCells as CrossChecked['details'] | undefined;
+  return cells !== undefined && (cells.kept === 'digits' || cells.agree);
+}
+
 function ocrDoubtful(ocr: { reading: TextReading; firstAccepted: boolean | null }): boolean {
   return ocr.firstAccepted === false || ocrFactor(ocr.reading) < DOUBTFUL_OCR;
 }

@@ -1,5 +1,6 @@
 import { scoreField, type AlignmentEvidence } from '../fields/scoring.js';
-import { chooseCalibration, type CalibrationReader } from '../fields/default-confidence.js';
+import { chooseCalibration } from '../fields/default-confidence.js';
+import { valueFromDigitCells } from './digit-cross-check.js';
 import type { Alignment } from '../page/alignment.js';
 import type { Affine } from '../image/geometry.js';
 import { transformBox, unionBox } from '../image/geometry.js';
@@ -46,12 +47,6 @@ function alignmentEvidence(located: LocatedField, alignment: Alignment | undefin
   };
 }
 
-/** The digit reader's map applies where its value is the one kept, or the value both readers gave. */
-function calibrationReader(outcome: FieldReadOutcome): CalibrationReader | undefined {
-  const cells = outcome.details.digitCells as { kept: 'ocr' | 'digits'; agree: boolean } | undefined;
-  return cells && (cells.kept === 'digits' || cells.agree) ? 'digit_cells' : undefined;
-}
-
 /** Score a read field and shape it as the result contract says, with its box in source pixels. */
 export function buildFieldResult(
   located: LocatedField,
@@ -64,7 +59,8 @@ export function buildFieldResult(
   const { field } = located;
   const { source, detectionScore } = overallSource(located);
   // The entry's script picks the shipped map (a blank area or a mark has none: group "none").
-  const calibration = chooseCalibration(field, outcome.script?.script ?? 'none', schemaThreshold, undefined, calibrationReader(outcome));
+  const reader = valueFromDigitCells(outcome.details) ? 'digit_cells' : undefined;
+  const calibration = chooseCalibration({ ...field, reader }, outcome.script?.script ?? 'none', schemaThreshold);
   const score = scoreField({
     detectionScore,
     source,

@@ -42,12 +42,12 @@ describe('shipped confidence maps per type and script', () => {
 
   it("a comb value the digit reader gave is scored with the digit reader's map, before its type's or the pool", () => {
     const withDigits: DefaultConfidence = { ...table, maps: { ...table.maps, 'handwritten/digit_cells': { points: [[0, 0.3], [0.93, 0.991]], threshold: 0.991, samples: 300, errors: 24 } } };
-    const digits = chooseCalibration({ type: 'number' }, 'handwritten', undefined, withDigits, 'digit_cells');
+    const digits = chooseCalibration({ type: 'number', reader: 'digit_cells' }, 'handwritten', undefined, withDigits);
     expect(digits.map).toEqual(withDigits.maps['handwritten/digit_cells'].points);
     expect(digits.threshold).toBe(0.991);
     // Tesseract's value, or a printed entry (no printed digit map): the type's or the pool's map as before.
     expect(chooseCalibration({ type: 'number' }, 'handwritten', undefined, withDigits).map).toEqual(table.maps['handwritten/*'].points);
-    expect(chooseCalibration({ type: 'date' }, 'printed', undefined, withDigits, 'digit_cells').map).toEqual(table.maps['printed/date'].points);
+    expect(chooseCalibration({ type: 'date', reader: 'digit_cells' }, 'printed', undefined, withDigits).map).toEqual(table.maps['printed/date'].points);
     // The shipped table has one (bench/fit-digit-confidence.ts), for the handwritten target of 1 % wrong among accepted.
     expect(SHIPPED_CONFIDENCE.maps['handwritten/digit_cells']).toBeDefined();
   });
