@@ -4,7 +4,7 @@ import { createGray } from '../../image/raster.js';
 import { binarizeOtsu } from '../../image/otsu.js';
 import { binarizeSauvola } from '../../image/sauvola.js';
 import { estimateCropSkew, rotateCrop, uprightBox } from './deskew.js';
-import { horizontalRuleLength, removeDashedRules, removeRuledLines } from './line-removal.js';
+import { horizontalRuleLength, removeDashedRules, removePrintedRules, removeRuledLines } from './line-removal.js';
 import { filterComponents, labelComponents } from '../../image/components.js';
 import { dropStrayEnds, inkBounds, isolateTextBand } from './text-band.js';
 import { resizeBilinear, upscaleToCharacterHeight } from './upscale.js';
@@ -89,7 +89,12 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
     case 'lines': {
       const b = ensureBinary(s);
       const removed = removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image);
-      return { ...b, image: b.printed ? keepUnprinted(b.image, removed, b.printed, horizontalRuleLength(b.image.width)) : removed };
+      if (!b.printed) return { ...b, image: removed };
+      const kept = keepUnprinted(b.image, removed, b.printed, horizontalRuleLength(b.image.width));
+      // A printed upright as short as 15 % of the field's height counts: comb ticks rise that little from their rule
+      // (fec-f99's street line; cell sides are far taller). Chosen on the development half of the real-form bench.
+      const minUpright = Math.max(4, Math.round(b.inner.h * 0.15));
+      return { ...b, image: removePrintedRules(kept, b.printed, { minRule: horizontalRuleLength(b.image.width), minUpright }) };
     }
     case 'components': {
       const b = ensureBinary(s);
