@@ -8,6 +8,8 @@ import { loadPdf, readPageWidgets } from '../../src/draft/from-pdf/widgets.js';
 import { FormSchema } from '../../src/schema/definition.js';
 import { checkSchemaConsistency } from '../../src/schema/consistency.js';
 import type { GrayImage } from '../../src/image/raster.js';
+import { renderPdfPage } from '../../src/input/pdf.js';
+import { typedPdf } from '../../src/synth/pdf-fill/typed.js';
 
 const DIR = path.resolve('test/fixtures/real-forms/pdfs');
 
@@ -112,6 +114,32 @@ describe('schema from-pdf: regions on the printed page', () => {
       // A printed box: dark rules along its bottom and over most of its height on the left (the box outline).
       expect(ruledRows(d.blank, x + 2, x + w - 2, y + h - 6, y + h + 4, 0.6).length).toBeGreaterThan(0);
     }
+  });
+
+  it('WH-384: the blank shows the boxes a viewer draws for the radio buttons, as every page filled through the form does', async () => {
+    // The buttons carry no appearance for "off", only border settings (their MK entry, ISO 32000-1 §12.5.6.19): a
+    // viewer draws the box from those, and the schema's blank must show what the printed form shows. Before, the
+    // blank had only the printed underline there, and the box on a filled page read as ink added in every option.
+    const d = await draft('dol-wh384-2009.pdf');
+    const choices = (d.sources.find((s) => s.kind === 'choice')!.field.options as { choices: { region: number[] }[] }).choices;
+    for (const c of choices) {
+      const [x, y, w, h] = c.region;
+      // The box's left side: a column of print (gray here, as the form's border colour is) over most of the region's
+      // height; the region is the widget's rectangle, the box is drawn a few pixels inside it.
+      let side = 0;
+      for (let xx = x - 2; xx <= x + 6; xx++) {
+        let dark = 0;
+        for (let yy = y; yy < y + h; yy++) if (d.blank.data[yy * d.blank.width + xx] < 200) dark++;
+        side = Math.max(side, dark / h);
+      }
+      expect(side).toBeGreaterThan(0.6);
+    }
+    // And the whole blank matches the form flattened by pdf-lib with nothing typed (what samples fill renders).
+    const bytes = new Uint8Array(await readFile(path.join(DIR, 'dol-wh384-2009.pdf')));
+    const flat = await renderPdfPage((await typedPdf(bytes, 'dol-wh384-2009.pdf', []))!, 'dol-wh384-2009.pdf', 0);
+    let differ = 0;
+    for (let i = 0; i < flat.data.length; i++) if (Math.abs(flat.data[i] - d.blank.data[i]) > 96) differ++;
+    expect(differ).toBeLessThan(50); // 519 before
   });
 });
 
