@@ -287,8 +287,12 @@ export const ADDED_INK_TOLERANCE = 2;
  */
 export const ADDED_INK_CONTRAST = 32;
 
-/** Blank pixels at or below this gray are printed ink (anti-aliased edges of thin rules included; as dropout). */
-const BLANK_INK = 200;
+/**
+ * Blank pixels at or below this gray are printed ink (anti-aliased edges of thin rules included). Lighter than the
+ * dropout's 200: the border a viewer draws around a widget is a light gray hairline (207 on US Courts B 121's check
+ * boxes, 188 at its thicker side), which the scan darkens and which then read as ink added in every empty box.
+ */
+const BLANK_INK = 230;
 
 /** Fewer paper pixels than this inside the box after the print is set aside: too few to judge (common practice). */
 const MIN_PAPER_PIXELS = 16;
