@@ -44,8 +44,11 @@ function interpretText(text: string, o: ChoiceTextOptions, fuzzy: boolean): Inte
   const allowed = winners.filter((s) => s.d <= (fuzzy ? (o.maxDistance ?? defaultMaxDistance(s.choice)) : 0));
   if (allowed.length === 0) return invalidInterpretation(['not_a_choice']);
   const confidence = Math.pow(EDIT_PENALTY, best);
-  // "MX" is one edit from MA, MD, ME, MI, MN, MO, MS and MT: no ground to pick one.
-  if (allowed.length > 1) return { value: null, outcome: 'ambiguous', confidence, reasons: ['ambiguous_choice'] };
+  // "MX" is one edit from MA, MD, ME, MI, MN, MO, MS and MT: no ground to pick one. Nor when the next choice is not
+  // at least twice as far: "District of Mon" (a clipped "District of Montana") is 3 edits from "District of Maine" and
+  // 4 from Montana, and was accepted as Maine on the real-form bench; "V7" is 1 from VT and 2 from every other code.
+  const runnerUp = Math.min(...scored.filter((s) => s.d > best).map((s) => s.d));
+  if (allowed.length > 1 || runnerUp < 2 * best) return { value: null, outcome: 'ambiguous', confidence, reasons: ['ambiguous_choice'] };
   return validInterpretation(allowed[0].choice, confidence, ['fuzzy_choice_match']);
 }
 

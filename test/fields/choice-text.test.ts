@@ -23,6 +23,19 @@ describe('choice_text', () => {
     expect(r.confidence).toBeLessThan(1);
   });
 
+  it('calls a fuzzy match ambiguous when the next choice is not twice as far (a clipped district name)', () => {
+    // Levenshtein distances as fastest-levenshtein computes them, on the compared forms (no case, spaces or
+    // punctuation): the clipped read is 3 edits from Maine and 4 from Montana, the district actually typed.
+    const districts = { choices: ['District of Maine', 'District of Montana', 'District of Nevada'] };
+    expect(distance('DISTRICTOFMON', 'DISTRICTOFMAINE')).toBe(3);
+    expect(distance('DISTRICTOFMON', 'DISTRICTOFMONTANA')).toBe(4);
+    const r = readAs('choice_text', 'District of Mon', districts);
+    expect(r.outcome).toBe('ambiguous');
+    expect(r.reasons).toEqual(['ambiguous_choice']);
+    // One slip with every other district far off still matches.
+    expect(readAs('choice_text', 'District of Nevda', districts).value).toBe('District of Nevada');
+  });
+
   it('calls a text equally close to two choices ambiguous', () => {
     // "MH" is one edit from ME, MA and NH.
     const r = readAs('choice_text', 'MH', NEW_ENGLAND);
