@@ -287,12 +287,44 @@ export const ADDED_INK_TOLERANCE = 2;
  */
 export const ADDED_INK_CONTRAST = 32;
 
+/** Blank pixels at or below this gray are printed ink (anti-aliased edges of thin rules included; as dropout). */
+const BLANK_INK = 200;
+
 /**
- * Blank pixels at or below this gray are printed ink (anti-aliased edges of thin rules included). Lighter than the
- * dropout's 200: the border a viewer draws around a widget is a light gray hairline (207 on US Courts B 121's check
- * boxes, 188 at its thicker side), which the scan darkens and which then read as ink added in every empty box.
+ * Lighter print that is still print when it forms a hairline: the border a viewer draws around a check box in light
+ * gray (207 on Official Form B 121, 188 at its thicker side), which a scan darkens and which read as a tick in every
+ * empty box of that form. Only thin straight runs count: a light background fill of a box is paper to a writer, and
+ * set aside whole it left no paper to judge a mark on (bench/real-form-marks.ts, development forms).
  */
-const BLANK_INK = 230;
+const HAIRLINE_INK = 230;
+/** Shortest hairline, pixels (a 6 pt check box side is 17 px at 200 dpi). */
+const HAIRLINE_RUN = 12;
+/** A hairline is at most this thick, pixels: print this far on either side of it across the line is paper. */
+const HAIRLINE_HALF = 2;
+
+/** Blank pixels of light print (BLANK_INK, HAIRLINE_INK] lying in a thin straight run along a row or a column. */
+function hairlines(blank: GrayImage): GrayImage {
+  const { width: w, height: h, data } = blank;
+  const light = (x: number, y: number) => x >= 0 && y >= 0 && x < w && y < h && data[y * w + x] <= HAIRLINE_INK;
+  const out = new Uint8Array(w * h).fill(255);
+  for (const horizontal of [true, false]) {
+    const [len, lines] = horizontal ? [w, h] : [h, w];
+    for (let line = 0; line < lines; line++) {
+      let start = -1;
+      for (let a = 0; a <= len; a++) {
+        const [x, y] = horizontal ? [a, line] : [line, a];
+        const across = horizontal ? [[x, y - HAIRLINE_HALF - 1], [x, y + HAIRLINE_HALF + 1]] : [[x - HAIRLINE_HALF - 1, y], [x + HAIRLINE_HALF + 1, y]];
+        const on = a < len && light(x, y) && !across.every(([u, v]) => light(u, v));
+        if (on && start < 0) start = a;
+        if (!on && start >= 0) {
+          if (a - start >= HAIRLINE_RUN) for (let k = start; k < a; k++) out[horizontal ? line * w + k : k * w + line] = 0;
+          start = -1;
+        }
+      }
+    }
+  }
+  return { width: w, height: h, data: out };
+}
 
 /** Fewer paper pixels than this inside the box after the print is set aside: too few to judge (common practice). */
 const MIN_PAPER_PIXELS = 16;
@@ -344,6 +376,8 @@ export function addedInkMask(
   contrast = ADDED_INK_CONTRAST,
 ): AddedInk | null {
   const print = formMask(blank, tolerance, BLANK_INK);
+  const hairline = formMask(hairlines(blank), tolerance, 0);
+  for (let i = 0; i < print.length; i++) if (hairline[i]) print[i] = 1;
   const lightest = maxFilter(blank, tolerance);
   const paperPixels: number[] = [];
   for (let i = 0; i < img.data.length; i++) if (!print[i]) paperPixels.push(img.data[i]);
