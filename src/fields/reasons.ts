@@ -220,7 +220,7 @@ export const REASONS = {
   },
   ambiguous_choice: {
     effect: 'review',
-    meaning: 'The text is equally close to two or more choices.',
+    meaning: 'The text is as close, or nearly as close, to two or more choices.',
     check: 'Which choice is written.',
   },
   // Marks and signatures.
