@@ -6,7 +6,10 @@
  * threads share one process: "per worker" is that peak divided by the workers, main thread included).
  *
  *   npm run build && npx tsx bench/batch-speed.ts [--pages 24] [--workers 1,2] [--rss-pages 100,2000] [--full-page 4]
+ *     [--malloc-arena-max N]
  *
+ * --malloc-arena-max runs `extract` with MALLOC_ARENA_MAX=N in its environment (glibc's cap on its per-thread memory
+ * arenas; other C libraries ignore it); without it the bench's own environment is passed on as it is.
  * --rss-pages runs 2 workers over that many pages (the --pages pages copied under new names as needed) for the
  * memory figures. Writes bench/out/batch-speed/report.json.
  */
@@ -30,6 +33,7 @@ const { values: args } = parseArgs({
     workers: { type: 'string', default: '1,2' },
     'rss-pages': { type: 'string', default: '' },
     'full-page': { type: 'string', default: '4' },
+    'malloc-arena-max': { type: 'string' },
   },
 });
 
@@ -66,6 +70,7 @@ async function extract(dir: string, n: number, workers: number): Promise<RunReco
   const code = await new Promise<number | null>((resolve) => {
     const child = spawn(process.execPath, [cli, 'extract', path.join(dir, '*.png'), '--schema', schema, '--out', out, '--workers', String(workers), '--quiet'], {
       stdio: ['ignore', 'ignore', 'inherit'],
+      env: args['malloc-arena-max'] ? { ...process.env, MALLOC_ARENA_MAX: args['malloc-arena-max'] } : process.env,
     });
     child.on('close', resolve);
   });
@@ -138,4 +143,4 @@ console.log(`  against full-page OCR: ${vsFull?.toFixed(2) ?? '-'}x faster by wa
 console.log(`  peak RSS per worker: ${perWorker.toFixed(0)} MB (target <= 450): ${verdict(perWorker > 0 ? perWorker <= 450 : null)}`);
 console.log(`  RSS 2000 / 100 pages: ${flat?.toFixed(2) ?? '-'} (target 0.9..1.1): ${verdict(flat === null ? null : flat >= 0.9 && flat <= 1.1)}`);
 console.log(`  pages/s on this machine: ${best} (target >= 2): ${verdict(best > 0 ? best >= 2 : null)}`);
-await writeJsonAtomic(path.join(base, 'report.json'), { pages: pages.length, loadAverage: os.loadavg(), cores: os.availableParallelism(), runs, vsFullCpu, rss, fullPageSecondsPerPage: fullPage, ratio, speedup, vsFull, perWorker, flat });
+await writeJsonAtomic(path.join(base, 'report.json'), { mallocArenaMax: args['malloc-arena-max'] ?? process.env.MALLOC_ARENA_MAX ?? null, pages: pages.length, loadAverage: os.loadavg(), cores: os.availableParallelism(), runs, vsFullCpu, rss, fullPageSecondsPerPage: fullPage, ratio, speedup, vsFull, perWorker, flat });
