@@ -58,12 +58,9 @@ export async function openPdf(bytes: Buffer, source: string, limits: DecodeLimit
 }
 
 /**
- * Render one page (0-based) of a PDF at `dpi` to a grayscale raster as a PDF viewer shows and prints it: used to draw
- * a fillable form's blank, and its filled copies, without rendering the other pages. Form fields are drawn by PDFium's
- * form filler, which makes an appearance for a widget that has none from the widget's own border and background
- * settings (ISO 32000-1 §12.5.6.19, the MK entry), as viewers do. Without it an unchecked box of some forms showed
- * no box at all on the blank (DOL WH-384, US Courts B 108, NARA SF 180), though the form printed from a viewer, and
- * every page filled through it, shows one: the schema's blank then differed from the paper it stands for.
+ * Render one page (0-based) of a PDF at `dpi` to a grayscale raster, widget appearances included: used to draw a
+ * fillable form's blank (flattened first, src/draft/from-pdf/flatten.ts), and its filled copies, without rendering the
+ * other pages.
  */
 export async function renderPdfPage(bytes: Uint8Array, source: string, pageIndex: number, dpi = PDF_DPI): Promise<GrayImage> {
   library ??= PDFiumLibrary.init();
@@ -78,7 +75,7 @@ export async function renderPdfPage(bytes: Uint8Array, source: string, pageIndex
     const count = doc.getPageCount();
     if (pageIndex < 0 || pageIndex >= count) throw documentError(source, `page ${pageIndex + 1} does not exist (the PDF has ${count})`);
     const page = doc.getPage(pageIndex);
-    const r = await page.render({ scale: dpi / 72, colorSpace: 'Gray', render: 'bitmap', renderFormFields: true } as Parameters<typeof page.render>[0]);
+    const r = await page.render({ scale: dpi / 72, colorSpace: 'Gray', render: 'bitmap' } as Parameters<typeof page.render>[0]);
     if (r.data.length !== r.width * r.height) throw documentError(source, `page ${pageIndex + 1} did not render as a grayscale image`);
     return { width: r.width, height: r.height, data: new Uint8Array(r.data) };
   } finally {

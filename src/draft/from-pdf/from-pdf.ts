@@ -2,6 +2,7 @@ import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { configError } from '../../errors.js';
 import { PDF_DPI, renderPdfPage } from '../../input/pdf.js';
+import { printedBlankPdf } from './flatten.js';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { grayToPng, type GrayImage } from '../../image/raster.js';
 import { FormSchema } from '../../schema/definition.js';
@@ -47,7 +48,8 @@ export async function draftFromPdf(file: string, o: { page?: number; image: stri
   const widgets = readPageWidgets(doc, page, file);
   if (widgets.widgets.length === 0) throw configError(file, `page ${page + 1} has no fillable widgets (only push buttons, hidden, read-only or barcode fields)`);
   const dpi = PDF_DPI;
-  const blank = await renderPdfPage(bytes, file, page, dpi);
+  // The blank as the form prints, the boxes a viewer draws for fields with no appearance of their own included.
+  const blank = await renderPdfPage((await printedBlankPdf(bytes, file)) ?? bytes, file, page, dpi);
   const parts = assembleFields(widgets, dpi, blank.width, blank.height);
   const name = o.name ?? formNameOf(file);
   const schema = assembleSchema(parts, { name, image: o.image, description: `Drafted from the fillable PDF ${path.basename(file)}, page ${page + 1}` });

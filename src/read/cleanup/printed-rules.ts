@@ -19,6 +19,18 @@ export function removePrintedRules(img: GrayImage, printed: GrayImage, o: { minR
   const { width: w, height: h } = img;
   const print: GrayImage = { width: w, height: h, data: printed.data.map((v) => (v === 0 ? INK : PAPER)) };
   const band = markRuns(print, true, o.minRule);
+  const upright = printedUprights(print, band, o.minUpright);
+  const rule = ruleRowsInk(img, band);
+  const side = uprightInk(img, upright);
+  const out = { width: w, height: h, data: img.data.slice() };
+  for (let i = 0; i < out.data.length; i++) if (rule[i] || side[i]) out.data[i] = PAPER;
+  dropPrintRemnants(out, print, band, upright);
+  return out;
+}
+
+/** The page's ink in the rows of each RULE_WINDOW-wide stretch of the rule band that it mostly fills, less crossings. */
+function ruleRowsInk(img: GrayImage, band: Uint8Array): Uint8Array {
+  const { width: w, height: h } = img;
   const mark = new Uint8Array(img.data.length);
   for (let x0 = 0; x0 < w; x0 += RULE_WINDOW) {
     const x1 = Math.min(w, x0 + RULE_WINDOW);
@@ -36,12 +48,18 @@ export function removePrintedRules(img: GrayImage, printed: GrayImage, o: { minR
     }
   }
   repair(img, mark, true);
-  // Uprights the blank prints (box sides, the ticks along a comb's rule, shorter than any rule the page's ink is
-  // searched for): the page's ink goes where it covers most of the printed upright's length. A letter's stem beside a
-  // cell side is shorter than the side and stays; a tick joined to a descender goes, and the descender is a letter
-  // again ("Foxglove" read "Fox love" with the g and the tick dropped as one tall sparse shape).
-  const upright = printedUprights(print, band, o.minUpright);
-  const markV = new Uint8Array(img.data.length);
+  return mark;
+}
+
+/**
+ * Uprights the blank prints (box sides, the ticks along a comb's rule, shorter than any rule the page's ink is
+ * searched for): the page's ink goes where it covers most of the printed upright's length. A letter's stem beside a
+ * cell side is shorter than the side and stays; a tick joined to a descender goes, and the descender is a letter again
+ * ("Foxglove" read "Fox love" with the g and the tick dropped as one tall sparse shape).
+ */
+function uprightInk(img: GrayImage, upright: Uint8Array): Uint8Array {
+  const { width: w, height: h } = img;
+  const mark = new Uint8Array(img.data.length);
   for (let x = 0; x < w; x++) {
     let y = 0;
     while (y < h) {
@@ -50,17 +68,22 @@ export function removePrintedRules(img: GrayImage, printed: GrayImage, o: { minR
       while (y < h && upright[y * w + x]) y++;
       let inked = 0;
       for (let k = y0; k < y; k++) if (img.data[k * w + x] === INK) inked++;
-      if (inked >= UPRIGHT_COVER * (y - y0)) for (let k = y0; k < y; k++) if (img.data[k * w + x] === INK) markV[k * w + x] = 1;
+      if (inked >= UPRIGHT_COVER * (y - y0)) for (let k = y0; k < y; k++) if (img.data[k * w + x] === INK) mark[k * w + x] = 1;
     }
   }
-  repair(img, markV, false);
-  const out = { width: w, height: h, data: img.data.slice() };
-  for (let i = 0; i < mark.length; i++) if (mark[i] || markV[i]) out.data[i] = PAPER;
-  // What is left lying wholly on the blank's print is print: the remnant of a tick (the dots of a dotted separator,
-  // the edge of a tick the scan moved a pixel, which read as "~~ EE" after a value), a placeholder printed in the
-  // field ("D" above the day of a date, read into it), a label. A letter that touches the print has ink off it and
-  // stays, and so does a piece lying wholly along a horizontal rule, a decimal point sitting on the rule, unless it
-  // stands under a printed upright (the foot of a tick where it meets the rule).
+  repair(img, mark, false);
+  return mark;
+}
+
+/**
+ * What is left lying wholly on the blank's print is print, and goes: the remnant of a tick (the dots of a dotted
+ * separator, the edge of a tick the scan moved a pixel, which read as "~~ EE" after a value), a placeholder printed in
+ * the field ("D" above the day of a date, read into it), a label. A letter that touches the print has ink off it and
+ * stays, and so does a piece lying wholly along a horizontal rule, a decimal point sitting on the rule, unless it
+ * stands under a printed upright (the foot of a tick where it meets the rule).
+ */
+function dropPrintRemnants(out: GrayImage, print: GrayImage, band: Uint8Array, upright: Uint8Array): void {
+  const w = out.width;
   const { labels, components } = labelComponents(out);
   const uprightColumn = new Uint8Array(w);
   for (let i = 0; i < upright.length; i++) if (upright[i]) uprightColumn[i % w] = 1;
@@ -72,7 +95,6 @@ export function removePrintedRules(img: GrayImage, printed: GrayImage, o: { minR
     if (!band[i] || uprightColumn[i % w]) offRule[labels[i]] = 1;
   }
   for (let i = 0; i < labels.length; i++) if (labels[i] && !keep[labels[i]] && offRule[labels[i]]) out.data[i] = PAPER;
-  return out;
 }
 
 /**

@@ -1,5 +1,5 @@
-import { PDFCheckBox, PDFDropdown, PDFName, PDFRadioGroup, PDFSignature, PDFTextField } from '@cantoo/pdf-lib';
-import { loadPdf } from '../../draft/from-pdf/widgets.js';
+import { PDFCheckBox, PDFDropdown, PDFName, PDFRadioGroup, PDFTextField } from '@cantoo/pdf-lib';
+import { flattenForm, formToFlatten } from '../../draft/from-pdf/flatten.js';
 import type { PdfFieldFill } from './plan.js';
 
 /**
@@ -15,9 +15,7 @@ function turnOn(field: PDFCheckBox | PDFRadioGroup, onValue: string): void {
 
 /** Load the form and type the page's values into its fields (no appearances made yet). */
 async function filledForm(bytes: Uint8Array, file: string, fills: readonly PdfFieldFill[]) {
-  const doc = await loadPdf(bytes, file);
-  const form = doc.getForm();
-  form.deleteXFA();
+  const { doc, form } = await formToFlatten(bytes, file);
   for (const f of fills) {
     const w = f.src.widgets[0];
     const field = form.getField(w.fieldName);
@@ -27,10 +25,6 @@ async function filledForm(bytes: Uint8Array, file: string, fills: readonly PdfFi
     else if (f.text !== null && field instanceof PDFTextField) field.setText(f.text);
     else if (f.text !== null && field instanceof PDFDropdown) field.select(f.text);
   }
-  // pdf-lib cannot lay out rich text (ISO 32000-1 §12.7.3.4): such fields get plain appearances like the rest.
-  for (const field of form.getFields()) if (field instanceof PDFTextField && field.isRichFormatted()) field.disableRichFormatting();
-  // Signature fields have no appearance to flatten (pdf-lib would log an error for each); signatures are drawn.
-  for (const field of form.getFields()) if (field instanceof PDFSignature) form.removeField(field);
   return { doc, form };
 }
 
@@ -43,10 +37,5 @@ async function filledForm(bytes: Uint8Array, file: string, fills: readonly PdfFi
  */
 export async function typedPdf(bytes: Uint8Array, file: string, fills: readonly PdfFieldFill[]): Promise<Uint8Array | null> {
   const { doc, form } = await filledForm(bytes, file, fills);
-  try {
-    form.flatten();
-  } catch {
-    return null;
-  }
-  return doc.save({ useObjectStreams: false });
+  return flattenForm(doc, form);
 }
