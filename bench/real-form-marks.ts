@@ -16,8 +16,9 @@
  *   held-out, heavy:    boxes right 70.7 % -> 92.6 %; rows right 39 / review 33 -> right 71 / wrong 0 / review 1
  * Box figures count a box where added ink cannot be judged (too little paper inside) by the outline measure.
  *
- * Since the blank is rendered as a viewer prints the form (src/input/pdf.ts: widget borders drawn), the boxes found on
- * it differ (262 on the development forms, 58 rows -> 44): light scans, added ink with the margin rule,
+ * With the page rendered by PDFium's form filler (as this bench did at be957a6, when renderPdfPage drew form fields;
+ * it draws a light-gray hairline around boxes that have no appearance of their own), the boxes found differ (262 on
+ * the development forms, 58 rows -> 44): light scans, added ink with the margin rule,
  *   development: print up to 200 gray: boxes right 94.7 %, rows right 42 / wrong 0 / review 2; print up to 230:
  *                95.8 %, 40 / 4 / 0; print up to 200 and light hairlines (shipped): 97.3 %, 43 / 1 / 0
  *   held-out (shipped): boxes right 95.5 %, rows (72) right 70 / wrong 2 / review 0
