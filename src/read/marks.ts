@@ -302,22 +302,28 @@ const HAIRLINE_RUN = 12;
 /** A hairline is at most this thick, pixels: print this far on either side of it across the line is paper. */
 const HAIRLINE_HALF = 2;
 
-/** Blank pixels of light print (BLANK_INK, HAIRLINE_INK] lying in a thin straight run along a row or a column. */
+/** Blank pixels of light print (up to HAIRLINE_INK) lying in a thin straight run along a row or a column (0 there). */
 function hairlines(blank: GrayImage): GrayImage {
   const { width: w, height: h, data } = blank;
-  const light = (x: number, y: number) => x >= 0 && y >= 0 && x < w && y < h && data[y * w + x] <= HAIRLINE_INK;
   const out = new Uint8Array(w * h).fill(255);
+  const gap = HAIRLINE_HALF + 1;
   for (const horizontal of [true, false]) {
-    const [len, lines] = horizontal ? [w, h] : [h, w];
+    // Along a row (step 1) or down a column (step w); `across` is the offset to the pixels either side of the line.
+    const [len, lines, step, stride, acrossLen] = horizontal ? [w, h, 1, w, h] : [h, w, w, 1, w];
+    const across = gap * stride;
     for (let line = 0; line < lines; line++) {
+      const base = line * stride;
+      // The pixels `gap` away on either side; off the image counts as paper.
+      const before = line - gap >= 0;
+      const after = line + gap < acrossLen;
       let start = -1;
       for (let a = 0; a <= len; a++) {
-        const [x, y] = horizontal ? [a, line] : [line, a];
-        const across = horizontal ? [[x, y - HAIRLINE_HALF - 1], [x, y + HAIRLINE_HALF + 1]] : [[x - HAIRLINE_HALF - 1, y], [x + HAIRLINE_HALF + 1, y]];
-        const on = a < len && light(x, y) && !across.every(([u, v]) => light(u, v));
-        if (on && start < 0) start = a;
-        if (!on && start >= 0) {
-          if (a - start >= HAIRLINE_RUN) for (let k = start; k < a; k++) out[horizontal ? line * w + k : k * w + line] = 0;
+        const i = base + a * step;
+        const light = a < len && data[i] <= HAIRLINE_INK;
+        const thin = light && !(before && data[i - across] <= HAIRLINE_INK && after && data[i + across] <= HAIRLINE_INK);
+        if (thin && start < 0) start = a;
+        if (!thin && start >= 0) {
+          if (a - start >= HAIRLINE_RUN) for (let k = start; k < a; k++) out[base + k * step] = 0;
           start = -1;
         }
       }

@@ -1,12 +1,10 @@
 import { PDFSignature, PDFTextField, type PDFDocument, type PDFForm } from '@cantoo/pdf-lib';
-import { loadPdf } from './widgets.js';
 
-/** A fillable PDF loaded for flattening, its XFA dropped so that the AcroForm is what every renderer shows. */
-export async function formToFlatten(bytes: Uint8Array, file: string): Promise<{ doc: PDFDocument; form: PDFForm }> {
-  const doc = await loadPdf(bytes, file);
+/** The form of a loaded fillable PDF, its XFA dropped so that the AcroForm is what every renderer shows. */
+export function formToFlatten(doc: PDFDocument): PDFForm {
   const form = doc.getForm();
   form.deleteXFA();
-  return { doc, form };
+  return form;
 }
 
 /**
@@ -31,9 +29,9 @@ export async function flattenForm(doc: PDFDocument, form: PDFForm): Promise<Uint
  * The empty form as it prints: flattened with nothing typed. Check boxes and radio buttons that carry no appearance
  * for "off" (DOL WH-384, US Courts B 108, NARA SF 180; 11 of the 28 reference forms differ) show no box when the page
  * is rendered as it is, though a viewer draws one from the widget's border settings, and so does every page filled
- * through the form; rendered from this, the blank shows the box. Null when pdf-lib cannot flatten the form.
+ * through the form; rendered from this, the blank shows the box. Null when pdf-lib cannot flatten the form. Flattening
+ * changes `doc`: read what else it is needed for first.
  */
-export async function printedBlankPdf(bytes: Uint8Array, file: string): Promise<Uint8Array | null> {
-  const { doc, form } = await formToFlatten(bytes, file);
-  return flattenForm(doc, form);
+export async function printedBlankPdf(doc: PDFDocument): Promise<Uint8Array | null> {
+  return flattenForm(doc, formToFlatten(doc));
 }

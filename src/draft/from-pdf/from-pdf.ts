@@ -49,7 +49,8 @@ export async function draftFromPdf(file: string, o: { page?: number; image: stri
   if (widgets.widgets.length === 0) throw configError(file, `page ${page + 1} has no fillable widgets (only push buttons, hidden, read-only or barcode fields)`);
   const dpi = PDF_DPI;
   // The blank as the form prints, the boxes a viewer draws for fields with no appearance of their own included.
-  const blank = await renderPdfPage((await printedBlankPdf(bytes, file)) ?? bytes, file, page, dpi);
+  // The widgets are read: the document they came from can be flattened now, not parsed a second time.
+  const blank = await renderPdfPage((await printedBlankPdf(doc)) ?? bytes, file, page, dpi);
   const parts = assembleFields(widgets, dpi, blank.width, blank.height);
   const name = o.name ?? formNameOf(file);
   const schema = assembleSchema(parts, { name, image: o.image, description: `Drafted from the fillable PDF ${path.basename(file)}, page ${page + 1}` });

@@ -91,11 +91,12 @@ function runStep(step: CleanupStep, s: State, ctx: CleanupContext): State {
       const b = ensureBinary(s);
       const removed = removeDashedRules(removeRuledLines(b.image, ruleLengths(ctx, b.inner)).image);
       if (!b.printed) return { ...b, image: removed };
-      const kept = keepUnprinted(b.image, removed, b.printed, horizontalRuleLength(b.image.width));
+      const ruleLength = horizontalRuleLength(b.image.width);
+      const kept = keepUnprinted(b.image, removed, b.printed, ruleLength);
       // A printed upright as short as 15 % of the field's height counts: comb ticks rise that little from their rule
       // (fec-f99's street line; cell sides are far taller). Chosen on the development half of the real-form bench.
       const minUpright = Math.max(4, Math.round(b.inner.h * 0.15));
-      return { ...b, image: removePrintedRules(kept, b.printed, { minRule: horizontalRuleLength(b.image.width), minUpright }) };
+      return { ...b, image: removePrintedRules(kept, b.printed, { minRule: ruleLength, minUpright }) };
     }
     case 'components': {
       const b = ensureBinary(s);

@@ -4,8 +4,8 @@ import { labelComponents } from '../../image/components.js';
 import { markRuns, repair } from './line-removal.js';
 
 /**
- * Remove the rules the blank form prints under the crop where the page's ink lies on them. `printed` is the blank's
- * print under the crop (0 print, 255 paper; grown by the registration tolerance, see printedUnderCrop).
+ * Remove the rules the blank form prints under the crop where the page's ink lies on them. `print` is the blank's
+ * print under the crop (INK where printed, PAPER elsewhere; grown by the registration tolerance, see printedUnderCrop).
  *
  * Horizontal rules: a straight run of print at least `minRule` long on the blank gives the rows the page's rule can
  * lie in; in each stretch of RULE_WINDOW columns the rows of it that the page's ink mostly fills are the rule, and
@@ -15,9 +15,8 @@ import { markRuns, repair } from './line-removal.js';
  * and a decimal point sitting on the rule are in the rows above it and stay; strokes crossing it keep their pixels on
  * it (repairCrossings).
  */
-export function removePrintedRules(img: GrayImage, printed: GrayImage, o: { minRule: number; minUpright: number }): GrayImage {
+export function removePrintedRules(img: GrayImage, print: GrayImage, o: { minRule: number; minUpright: number }): GrayImage {
   const { width: w, height: h } = img;
-  const print: GrayImage = { width: w, height: h, data: printed.data.map((v) => (v === 0 ? INK : PAPER)) };
   const band = markRuns(print, true, o.minRule);
   const upright = printedUprights(print, band, o.minUpright);
   const rule = ruleRowsInk(img, band);

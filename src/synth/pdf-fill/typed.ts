@@ -1,5 +1,6 @@
 import { PDFCheckBox, PDFDropdown, PDFName, PDFRadioGroup, PDFTextField } from '@cantoo/pdf-lib';
 import { flattenForm, formToFlatten } from '../../draft/from-pdf/flatten.js';
+import { loadPdf } from '../../draft/from-pdf/widgets.js';
 import type { PdfFieldFill } from './plan.js';
 
 /**
@@ -15,7 +16,8 @@ function turnOn(field: PDFCheckBox | PDFRadioGroup, onValue: string): void {
 
 /** Load the form and type the page's values into its fields (no appearances made yet). */
 async function filledForm(bytes: Uint8Array, file: string, fills: readonly PdfFieldFill[]) {
-  const { doc, form } = await formToFlatten(bytes, file);
+  const doc = await loadPdf(bytes, file);
+  const form = formToFlatten(doc);
   for (const f of fills) {
     const w = f.src.widgets[0];
     const field = form.getField(w.fieldName);
